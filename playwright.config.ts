@@ -1,0 +1,36 @@
+import { defineConfig } from '@playwright/test';
+
+const PORT = Number(process.env.E2E_PORT ?? 4173);
+const origin = `http://localhost:${PORT}`;
+
+export default defineConfig({
+	testDir: 'tests/e2e',
+	fullyParallel: false,
+	workers: 1,
+	retries: process.env.CI ? 1 : 0,
+	timeout: 60_000,
+	expect: { timeout: 10_000 },
+	reporter: process.env.CI ? [['list'], ['json', { outputFile: 'reports/playwright.json' }]] : [['list']],
+	use: {
+		baseURL: origin,
+		trace: 'retain-on-failure',
+		launchOptions: {
+			executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+			args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic']
+		}
+	},
+	webServer: {
+		command: 'npx vite build --logLevel warn && npx tsx scripts/seed.ts --fresh && node build',
+		url: `${origin}/api/health`,
+		reuseExistingServer: false,
+		timeout: 180_000,
+		stdout: 'ignore',
+		stderr: 'pipe',
+		env: {
+			PORT: String(PORT),
+			HOST: '127.0.0.1',
+			ORIGIN: origin,
+			DATABASE_URL: 'data/e2e.db'
+		}
+	}
+});

@@ -1,0 +1,19 @@
+import type { SessionInfo, SessionUser } from '$lib/server/auth';
+
+declare global {
+	namespace App {
+		interface Locals {
+			user: SessionUser | null;
+			session: SessionInfo | null;
+		}
+		interface Error {
+			message: string;
+			code?: string;
+		}
+		// interface PageData {}
+		// interface PageState {}
+		// interface Platform {}
+	}
+}
+
+export {};

@@ -1,0 +1,164 @@
+/**
+ * The moves a unit can make, each with the roles allowed to make it, the stage whose
+ * station performs it, and the data it needs. The rules that decide whether a move is
+ * allowed live in `machine.ts`; extra checks contributed by other parts of the shop
+ * (balance record, assembly record, ...) live in `guards.ts`.
+ */
+import { z } from 'zod';
+import type { Role } from '../auth/roles';
+import { FLOOR_ROLES, INTAKE_ROLES, STEERING_ROLES } from '../auth/roles';
+import type { Stage, UnitState } from './states';
+import { STAGES } from './states';
+
+export const ACTIONS = [
+	'receive',
+	'inspect',
+	'accept',
+	'scrap',
+	'clean',
+	'machine',
+	'paint',
+	'assemble',
+	'balance',
+	'pack',
+	'ship',
+	'hold',
+	'release',
+	'rework'
+] as const;
+export type ActionName = (typeof ACTIONS)[number];
+
+export function isActionName(value: unknown): value is ActionName {
+	return typeof value === 'string' && (ACTIONS as readonly string[]).includes(value);
+}
+
+const reasonText = z
+	.string({ error: 'Give a reason.' })
+	.trim()
+	.min(3, 'Give a reason of at least 3 characters.')
+	.max(500, 'Keep the reason under 500 characters.');
+
+export const actionData = {
+	receive: z.object({}).passthrough(),
+	inspect: z.object({}).passthrough(),
+	accept: z.object({}).passthrough(),
+	scrap: z
+		.object({
+			reasonCode: z
+				.string({ error: 'Choose a scrap reason.' })
+				.trim()
+				.min(1, 'Choose a scrap reason.')
+				.max(40, 'That scrap reason code is too long.')
+		})
+		.passthrough(),
+	clean: z.object({}).passthrough(),
+	machine: z.object({}).passthrough(),
+	paint: z.object({}).passthrough(),
+	assemble: z.object({}).passthrough(),
+	balance: z.object({}).passthrough(),
+	pack: z.object({}).passthrough(),
+	ship: z.object({}).passthrough(),
+	hold: z.object({ reason: reasonText }).passthrough(),
+	release: z.object({}).passthrough(),
+	rework: z
+		.object({
+			toStage: z.enum(STAGES, { error: 'Choose the stage to send it back to.' }),
+			reason: reasonText
+		})
+		.passthrough()
+} satisfies Record<ActionName, z.ZodType>;
+
+export interface ActionInfo {
+	name: ActionName;
+	/** What the button says. */
+	label: string;
+	/** Past tense for the history and the scan banner. */
+	done: string;
+	/** The stage whose station performs it; null when it is not tied to one stage. */
+	stage: Stage | null;
+	/** Roles allowed to make this move. */
+	roles: readonly Role[];
+	/** Roles that may make it without standing at a station of the right stage. */
+	anywhere: readonly Role[];
+}
+
+function stageMove(name: ActionName, stage: Stage, label: string, done: string): ActionInfo {
+	return { name, label, done, stage, roles: FLOOR_ROLES, anywhere: STEERING_ROLES };
+}
+
+export const ACTION_INFO: Record<ActionName, ActionInfo> = {
+	receive: {
+		name: 'receive',
+		label: 'Receive',
+		done: 'Received',
+		stage: null,
+		roles: INTAKE_ROLES,
+		anywhere: INTAKE_ROLES
+	},
+	inspect: stageMove('inspect', 'teardown', 'Tear down', 'Torn down'),
+	accept: stageMove('accept', 'teardown', 'Accept', 'Accepted'),
+	scrap: {
+		name: 'scrap',
+		label: 'Scrap',
+		done: 'Scrapped',
+		stage: null,
+		roles: FLOOR_ROLES,
+		anywhere: STEERING_ROLES
+	},
+	clean: stageMove('clean', 'clean', 'Cleaned', 'Cleaned'),
+	machine: stageMove('machine', 'machine', 'Machined', 'Machined'),
+	paint: stageMove('paint', 'paint', 'Painted', 'Painted'),
+	assemble: stageMove('assemble', 'assemble', 'Assembled', 'Assembled'),
+	balance: stageMove('balance', 'balance', 'Balanced', 'Balanced'),
+	pack: stageMove('pack', 'pack', 'Packed', 'Packed'),
+	ship: stageMove('ship', 'ship', 'Shipped', 'Shipped'),
+	hold: {
+		name: 'hold',
+		label: 'Hold',
+		done: 'Put on hold',
+		stage: null,
+		roles: FLOOR_ROLES,
+		anywhere: STEERING_ROLES
+	},
+	release: {
+		name: 'release',
+		label: 'Release hold',
+		done: 'Released',
+		stage: null,
+		roles: FLOOR_ROLES,
+		anywhere: STEERING_ROLES
+	},
+	rework: {
+		name: 'rework',
+		label: 'Send back',
+		done: 'Sent back',
+		stage: null,
+		roles: STEERING_ROLES,
+		anywhere: STEERING_ROLES
+	}
+};
+
+/** The state each stage move needs and the state it leaves. */
+export const MOVES: Partial<Record<ActionName, { from: readonly UnitState[]; to: UnitState }>> = {
+	inspect: { from: ['received'], to: 'inspected' },
+	accept: { from: ['inspected'], to: 'accepted' },
+	clean: { from: ['accepted'], to: 'cleaned' },
+	machine: { from: ['cleaned'], to: 'machined' },
+	paint: { from: ['machined'], to: 'painted' },
+	assemble: { from: ['painted'], to: 'assembled' },
+	balance: { from: ['assembled'], to: 'balanced' },
+	pack: { from: ['balanced'], to: 'packed' },
+	ship: { from: ['packed'], to: 'shipped' }
+};
+
+/** States from which a unit may be scrapped: at the verdict, or later when a defect is found. */
+export const SCRAPPABLE: readonly UnitState[] = [
+	'inspected',
+	'accepted',
+	'cleaned',
+	'machined',
+	'painted',
+	'assembled',
+	'balanced',
+	'packed'
+];

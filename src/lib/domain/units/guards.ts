@@ -1,0 +1,57 @@
+/**
+ * Extra checks on a move, beyond the route itself. Each guard looks at the unit, the move
+ * and the facts the server gathered about the unit (records kept elsewhere), and returns
+ * a refusal sentence or null. Add a guard here when a later record must exist before a move.
+ */
+import type { ActionName } from './actions';
+import type { Stage, UnitState } from './states';
+import type { Role } from '../auth/roles';
+
+export interface UnitSnapshot {
+	serial: string;
+	state: UnitState;
+	held: boolean;
+	holdReason: string | null;
+}
+
+/**
+ * Facts about the unit kept outside its own row. The server fills in what it knows;
+ * a guard that needs a fact that is missing treats it as not present.
+ */
+export interface UnitFacts {
+	/** Scrap reason codes the shop has set up (active ones). */
+	scrapReasonCodes?: readonly string[];
+	/** A passing balance record exists for the unit's current build. */
+	hasPassingBalance?: boolean;
+	/** An assembly record within limits (or with an approved deviation) exists. */
+	hasAssemblyRecord?: boolean;
+	/** A customer's unit: null when no quote is needed, otherwise whether it is approved. */
+	quoteApproved?: boolean | null;
+	[key: string]: unknown;
+}
+
+export interface GuardContext {
+	unit: UnitSnapshot;
+	action: ActionName;
+	role: Role;
+	stationStage: Stage | null;
+	data: Record<string, unknown>;
+	facts: UnitFacts;
+}
+
+export type Guard = (ctx: GuardContext) => string | null;
+
+/** Scrap needs a reason the shop knows, when the server told us which reasons exist. */
+const scrapReasonKnown: Guard = ({ unit, data, facts }) => {
+	if (!facts.scrapReasonCodes) return null;
+	const code = String(data.reasonCode ?? '');
+	return facts.scrapReasonCodes.includes(code)
+		? null
+		: `${unit.serial}: "${code}" is not a scrap reason the shop uses; choose one from the list.`;
+};
+
+export type GuardTable = Partial<Record<ActionName, readonly Guard[]>>;
+
+export const DEFAULT_GUARDS: GuardTable = {
+	scrap: [scrapReasonKnown]
+};

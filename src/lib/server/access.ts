@@ -1,0 +1,64 @@
+/**
+ * Who may reach which route. Every route in `src/routes` has an entry, keyed by its route
+ * id; a route without one is refused for everybody. Pages are checked on every request
+ * (load and form actions alike); API routes per HTTP method.
+ */
+import type { Role } from '../domain/auth/roles';
+import { ALL_ROLES, FLOOR_ROLES } from '../domain/auth/roles';
+
+export type Audience = readonly Role[] | 'public';
+type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+
+export interface RouteRule {
+	/** Who may load the page or call GET. */
+	read: Audience;
+	/** Who may post form actions or call mutating methods; defaults to `read`. */
+	write?: Audience;
+	/** Per-method rules for API routes, overriding read/write. */
+	methods?: Partial<Record<Method, Audience>>;
+}
+
+const OWNER: readonly Role[] = ['owner'];
+
+export const ROUTE_ACCESS: Record<string, RouteRule> = {
+	'/login': { read: 'public' },
+	'/logout': { read: ALL_ROLES },
+	'/api/health': { read: 'public' },
+
+	'/(app)': { read: ALL_ROLES },
+	'/(app)/units': { read: ALL_ROLES },
+	'/(app)/units/[serial=serial]': { read: ALL_ROLES, write: FLOOR_ROLES },
+	'/(app)/stations': { read: ALL_ROLES },
+	'/(app)/stations/[code=code]': { read: ALL_ROLES, write: FLOOR_ROLES },
+	'/(app)/admin/users': { read: OWNER },
+
+	'/api/units': { read: ALL_ROLES },
+	'/api/units/[serial=serial]': { read: ALL_ROLES },
+	'/api/units/[serial=serial]/events': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
+	'/api/stations': { read: ALL_ROLES }
+};
+
+const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+export type AccessVerdict = 'allow' | 'sign-in' | 'forbidden' | 'unlisted';
+
+export function checkAccess(routeId: string, method: string, role: Role | null): AccessVerdict {
+	const rule = ROUTE_ACCESS[routeId];
+	if (!rule) return 'unlisted';
+	const m = method.toUpperCase() as Method;
+	const audience: Audience =
+		rule.methods?.[m] ?? (READ_METHODS.has(m) ? rule.read : (rule.write ?? rule.read));
+	if (audience === 'public') return 'allow';
+	if (!role) return 'sign-in';
+	return audience.includes(role) ? 'allow' : 'forbidden';
+}
+
+/** Where each role lands after signing in. */
+export function homeFor(role: Role): string {
+	switch (role) {
+		case 'tech':
+			return '/stations';
+		default:
+			return '/';
+	}
+}

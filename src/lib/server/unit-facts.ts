@@ -1,0 +1,30 @@
+/**
+ * Facts the state machine's guards need that live outside the unit row. Each action may
+ * have a loader; a later record (balance runs, assembly, quotes) adds its loader here.
+ */
+import { eq } from 'drizzle-orm';
+import type { ActionName } from '../domain/units/actions';
+import type { UnitFacts } from '../domain/units/guards';
+import type { DbOrTx } from './db';
+import { scrapReason, type Unit } from './db/schema';
+
+export type FactLoader = (tx: DbOrTx, unit: Unit) => Partial<UnitFacts>;
+
+const scrapReasons: FactLoader = (tx) => ({
+	scrapReasonCodes: tx
+		.select({ code: scrapReason.code })
+		.from(scrapReason)
+		.where(eq(scrapReason.active, true))
+		.all()
+		.map((r) => r.code)
+});
+
+export const FACT_LOADERS: Partial<Record<ActionName, readonly FactLoader[]>> = {
+	scrap: [scrapReasons]
+};
+
+export function loadFacts(tx: DbOrTx, unitRow: Unit, action: ActionName): UnitFacts {
+	const facts: UnitFacts = {};
+	for (const load of FACT_LOADERS[action] ?? []) Object.assign(facts, load(tx, unitRow));
+	return facts;
+}

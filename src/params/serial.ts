@@ -1,0 +1,4 @@
+import type { ParamMatcher } from '@sveltejs/kit';
+import { isSerial } from '$lib/domain/units/serial';
+
+export const match: ParamMatcher = (param) => isSerial(param);

@@ -1,0 +1,34 @@
+import { fail, redirect } from '@sveltejs/kit';
+import { message, superValidate } from 'sveltekit-superforms';
+import { zod4 } from 'sveltekit-superforms/adapters';
+import { homeFor } from '$lib/server/access';
+import { appAuth } from '$lib/server/app-auth';
+import { signInSchema } from '$lib/schemas';
+import type { Actions, PageServerLoad } from './$types';
+
+function safeNext(next: string | null): string | null {
+	return next && next.startsWith('/') && !next.startsWith('//') ? next : null;
+}
+
+export const load: PageServerLoad = async ({ locals, url }) => {
+	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')) ?? homeFor(locals.user.role));
+	return { form: await superValidate(zod4(signInSchema)) };
+};
+
+export const actions: Actions = {
+	default: async ({ request, cookies, url, locals }) => {
+		const form = await superValidate(request, zod4(signInSchema));
+		if (!form.valid) return fail(400, { form });
+		const auth = appAuth();
+		const found = await auth.signIn(form.data.email, form.data.password);
+		if (!found) {
+			form.data.password = '';
+			return message(form, 'That e-mail and password do not match an active account.', { status: 400 });
+		}
+		// A new session on every sign-in; any session this browser had is ended.
+		if (locals.session) await auth.invalidate(locals.session.id);
+		const { cookie } = await auth.createSession(found.id);
+		cookies.set(cookie.name, cookie.value, cookie.attributes);
+		redirect(303, safeNext(url.searchParams.get('next')) ?? homeFor(found.role));
+	}
+};
