@@ -35,7 +35,8 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/units': { read: ALL_ROLES },
 	'/api/units/[serial=serial]': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/events': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
-	'/api/stations': { read: ALL_ROLES }
+	'/api/stations': { read: ALL_ROLES },
+	'/api/stream': { read: ALL_ROLES }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

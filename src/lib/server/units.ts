@@ -11,6 +11,7 @@ import { formatSerial, normalizeSerial } from '../domain/units/serial';
 import { STAGE_INFO, nextStage, type Stage, type UnitState } from '../domain/units/states';
 import type { Db, DbOrTx } from './db';
 import { coreLot, counter, station, supplier, turboModel, unit, unitEvent, user, type Unit } from './db/schema';
+import { publish } from './live';
 import { loadFacts } from './unit-facts';
 
 export interface Actor {
@@ -155,6 +156,23 @@ export function getUnitWithHistory(db: DbOrTx, serial: string): { unit: UnitView
 
 /** Make a move on a unit. Everything happens in one immediate transaction. */
 export function applyMove(db: Db, actor: Actor, input: MoveInput, now: Date = new Date()): MoveResult {
+	const result = applyMoveInTransaction(db, actor, input, now);
+	if (result.ok && !result.replayed) {
+		publish({
+			topic: 'unit',
+			kind: result.event.action,
+			serial: result.unit.serial,
+			state: result.unit.state,
+			held: result.unit.held,
+			version: result.unit.version,
+			stationCode: result.event.station?.code ?? null,
+			at: result.event.at
+		});
+	}
+	return result;
+}
+
+function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Date): MoveResult {
 	if (!isActionName(input.action) || input.action === 'receive') {
 		return { ok: false, status: 400, code: 'invalid', message: 'Unknown action.', fields: { action: ['Unknown action.'] } };
 	}
@@ -284,7 +302,7 @@ export function receiveUnits(
 	now: Date = new Date()
 ): string[] {
 	if (!ACTION_INFO.receive.roles.includes(actor.role)) throw new Error(`a ${actor.role} cannot receive units`);
-	return db.transaction(
+	const created = db.transaction(
 		(tx) => {
 			const serials = allocateSerials(tx, units.length);
 			units.forEach((u, i) => {
@@ -321,6 +339,8 @@ export function receiveUnits(
 		},
 		{ behavior: 'immediate' }
 	);
+	for (const serial of created) publish({ topic: 'unit', kind: 'receive', serial, state: 'received', stationCode: null, at: now.toISOString() });
+	return created;
 }
 
 export interface UnitFilter {
