@@ -339,3 +339,27 @@ export function latestWheelSerials(db: DbOrTx, unitId: number): { compWheelSeria
 }
 
 export type { PlaneKey };
+
+/** The station a bench move is made at: the one named, else the first active station of the stage. */
+export function benchStation(db: DbOrTx, stage: 'balance' | 'assemble', code: string | null): { code: string; name: string } | null {
+	const rows = db.select().from(station).where(and(eq(station.stage, stage), eq(station.active, true))).orderBy(asc(station.sortOrder)).all();
+	const s = (code ? rows.find((r) => r.code === code) : undefined) ?? rows[0];
+	return s ? { code: s.code, name: s.name } : null;
+}
+
+/** Everything the balance and assembly pages show about a unit's build. */
+export function benchContext(db: DbOrTx, serial: string) {
+	const u = db.select().from(unit).where(eq(unit.serial, serial)).get();
+	if (!u) return null;
+	const spec = specForModel(db, u.modelId);
+	return {
+		unitId: u.id,
+		spec: spec ? specNumbers(spec) : null,
+		sources: spec?.sources ?? null,
+		demo: spec?.demo ?? false,
+		currentRuns: currentBuildRuns(db, u.id),
+		currentAssemblies: currentAssemblyRecords(db, u.id),
+		record: buildRecord(db, u.id),
+		wheels: latestWheelSerials(db, u.id)
+	};
+}
