@@ -115,3 +115,16 @@ test('the owner edits a model spec; a wrong pair is named and nothing is lost', 
 	await expect(page.getByTestId('source-gradeG')).toHaveText("Shop's choice");
 	await expect(page.getByTestId('save-spec')).toHaveCount(0);
 });
+
+test('readings can be taken from a CSV export by mapping its columns', async ({ page }) => {
+	await signIn(page, 'tech2');
+	await openBench(page, 'BALANCE', 'Assembled');
+	await page.getByText('Take the readings from a machine export (CSV)').click();
+	const csv = 'Run,Plane 1 amount,Plane 1 angle,Plane 2 amount,Plane 2 angle\n1,12.5,40,8.25,-20\n2,0.1,10,0.1,100\n';
+	await page.getByLabel('CSV export').setInputFiles({ name: 'export.csv', mimeType: 'text/csv', buffer: Buffer.from(csv) });
+	await page.locator('#map-row').selectOption('0');
+	await page.getByRole('button', { name: 'Copy into the readings' }).click();
+	await expect(page.getByTestId('comp-amount')).toHaveValue('12.5');
+	await expect(page.getByTestId('turb-angle')).toHaveValue('340');
+	await expect(page.getByTestId('live-verdict')).toContainText('Out of allowance');
+});
