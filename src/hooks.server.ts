@@ -58,7 +58,7 @@ const secureHeaders: Handle = async ({ event, resolve }) => {
 /** Floor screens are dark; office screens light. A `sy_theme` cookie overrides either. */
 const theme: Handle = async ({ event, resolve }) => {
 	const chosen = event.cookies.get('sy_theme');
-	const floor = event.route.id?.startsWith('/(app)/stations') || event.locals.user?.role === 'tech';
+	const floor = event.route.id?.startsWith('/(app)/stations') || /\/(balance|assembly)$/.test(event.route.id ?? '') || event.locals.user?.role === 'tech';
 	const dark = chosen === 'dark' || (chosen !== 'light' && floor);
 	return resolve(event, {
 		transformPageChunk: ({ html }) => html.replace('%spoolyard.theme%', dark ? 'dark' : '')

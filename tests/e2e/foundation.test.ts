@@ -1,5 +1,6 @@
 import { expect, test } from '@playwright/test';
 import { scan, signIn } from './helpers';
+import { recordAssembly, recordPassingRun } from './bench';
 
 test('a tech walks a demo core through every station to shipped and reads its history', async ({ page }) => {
 	await signIn(page, 'tech');
@@ -25,6 +26,9 @@ test('a tech walks a demo core through every station to shipped and reads its hi
 		['SHIP', 'Shipped']
 	];
 	for (const [code, state] of route) {
+		// Assembly and balance each need their record first: entered on the unit's bench pages.
+		if (code === 'BUILD-1') await recordAssembly(page, serial);
+		if (code === 'BALANCE') await recordPassingRun(page, serial);
 		await page.goto(`/stations/${code}`);
 		await scan(page, serial);
 		await expect(page.getByTestId('scan-result')).toHaveText(`${serial} → ${state}`);

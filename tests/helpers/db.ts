@@ -4,6 +4,7 @@ import { openDatabase, type Db } from '../../src/lib/server/db/index';
 import { coreLot, scrapReason, station, supplier, turboModel, user } from '../../src/lib/server/db/schema';
 import { DEMO_SCRAP_REASONS, DEMO_STATIONS } from '../../src/lib/server/seed';
 import { receiveUnits, type Actor } from '../../src/lib/server/units';
+import { insertDemoSpec } from '../../src/lib/server/seed-balance';
 import type { Role } from '../../src/lib/domain/auth/roles';
 
 export interface TestShop {
@@ -25,6 +26,7 @@ export function testShop(url = ':memory:'): TestShop {
 	DEMO_STATIONS.forEach((s, i) => db.insert(station).values({ ...s, material: s.material ?? null, sortOrder: i }).run());
 	for (const r of DEMO_SCRAP_REASONS) db.insert(scrapReason).values(r).run();
 	const modelId = db.insert(turboModel).values({ code: 'CH-F46', family: 'F' }).returning().get().id;
+	insertDemoSpec(db, modelId, 'CH-F46');
 	const supplierId = db.insert(supplier).values({ name: 'Test Core Source' }).returning().get().id;
 	const lotId = db
 		.insert(coreLot)

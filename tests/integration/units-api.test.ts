@@ -8,6 +8,8 @@ import { testShop, type TestShop } from '../helpers/db';
 import { unit, unitEvent } from '../../src/lib/server/db/schema';
 import { replay } from '../../src/lib/domain/units/machine';
 import type { Role } from '../../src/lib/domain/auth/roles';
+import { recordAssembly, recordBalanceRun } from '../../src/lib/server/balance';
+import { GOOD_ASSEMBLY, GOOD_RUN } from '../helpers/build-records';
 
 // The route handlers use the application's connection, opened from DATABASE_URL.
 const dir = mkdtempSync(join(tmpdir(), 'spoolyard-api-'));
@@ -129,6 +131,9 @@ describe('POST /api/units/{serial}/events', () => {
 			['assemble', 'BUILD-1'], ['balance', 'BALANCE'], ['pack', 'PACK'], ['ship', 'SHIP']
 		];
 		for (const [action, stationCode] of steps) {
+			// The build records the assemble and balance moves need (their guards are tested in balance.test.ts).
+			if (action === 'assemble') expect(recordAssembly(shop.db, shop.actors.tech, serial, GOOD_ASSEMBLY).ok).toBe(true);
+			if (action === 'balance') expect(recordBalanceRun(shop.db, shop.actors.tech, serial, GOOD_RUN).ok).toBe(true);
 			const r = await post(serial, 'tech', { action, stationCode, idempotencyKey: key() });
 			expect(r.status, action).toBe(201);
 		}

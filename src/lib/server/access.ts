@@ -31,11 +31,17 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/(app)/stations': { read: ALL_ROLES },
 	'/(app)/stations/[code=code]': { read: ALL_ROLES, write: FLOOR_ROLES },
 	'/(app)/admin/users': { read: OWNER },
+	'/(app)/models': { read: ALL_ROLES },
+	'/(app)/models/[code=code]': { read: ALL_ROLES, write: OWNER },
+	'/(app)/units/[serial=serial]/balance': { read: ALL_ROLES, write: FLOOR_ROLES },
+	'/(app)/units/[serial=serial]/assembly': { read: ALL_ROLES, write: FLOOR_ROLES },
 
 	'/api/units': { read: ALL_ROLES },
 	'/api/units/[serial=serial]': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/events': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/stations': { read: ALL_ROLES },
+	'/api/units/[serial=serial]/balance-runs': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
+	'/api/units/[serial=serial]/assembly': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/stream': { read: ALL_ROLES }
 };
 

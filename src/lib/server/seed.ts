@@ -12,6 +12,7 @@ import type { Stage, UnitState } from '../domain/units/states';
 import { hashPassword } from './auth';
 import type { Db } from './db';
 import { allocateSerials } from './units';
+import { demoBuildRecords } from './seed-balance';
 import { coreLot, scrapReason, station, supplier, turboModel, unit, unitEvent, user, type LotSource } from './db/schema';
 
 export const DEMO_SHOP = 'Corvid Hill Turbo Works';
@@ -127,6 +128,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 			stationIds.set(s.code, r.id);
 		});
 		const modelIds = DEMO_MODELS.map((m) => tx.insert(turboModel).values(m).returning({ id: turboModel.id }).get().id);
+		const build = demoBuildRecords(tx, DEMO_MODELS.map((m, i) => ({ id: modelIds[i], code: m.code })), now);
 		const reasons = DEMO_SCRAP_REASONS.map((r) => {
 			tx.insert(scrapReason).values(r).run();
 			return r.code;
@@ -187,7 +189,8 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 				});
 				const push = (action: ActionName, stationCode: string | null, actor: { id: string; role: Role }, data: Record<string, unknown> = {}) => {
 					const stage = stationCode ? DEMO_STATIONS.find((s) => s.code === stationCode)!.stage : null;
-					const d = decide({ serial, state, held, holdReason }, { action, role: actor.role, stationStage: stage, data });
+					const facts = build.before(action, { modelId, seq, at: new Date(t), actor, stationId: stationCode ? stationIds.get(stationCode)! : null });
+					const d = decide({ serial, state, held, holdReason }, { action, role: actor.role, stationStage: stage, data }, facts);
 					if (!d.ok) throw new Error(`demo seed made an impossible move: ${d.message}`);
 					t = Math.min(t + (2 + random() * 30) * 3_600_000 * (ageDays > 0 ? 1 : 0.05), now.getTime() - 60_000);
 					seq += 1;
@@ -248,6 +251,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 					.returning({ id: unit.id })
 					.get();
 				for (const r of rows) tx.insert(unitEvent).values({ ...r, unitId: created.id }).run();
+				build.flush(created.id);
 				units += 1;
 				events += rows.length;
 			}

@@ -7,6 +7,7 @@ import type { ActionName } from '../domain/units/actions';
 import type { UnitFacts } from '../domain/units/guards';
 import type { DbOrTx } from './db';
 import { scrapReason, type Unit } from './db/schema';
+import { hasAcceptedAssembly, hasPassingBalance } from './balance';
 
 export type FactLoader = (tx: DbOrTx, unit: Unit) => Partial<UnitFacts>;
 
@@ -19,8 +20,13 @@ const scrapReasons: FactLoader = (tx) => ({
 		.map((r) => r.code)
 });
 
+const balanceFacts: FactLoader = (tx, u) => ({ hasPassingBalance: hasPassingBalance(tx, u.id) });
+const assemblyFacts: FactLoader = (tx, u) => ({ hasAssemblyRecord: hasAcceptedAssembly(tx, u.id) });
+
 export const FACT_LOADERS: Partial<Record<ActionName, readonly FactLoader[]>> = {
-	scrap: [scrapReasons]
+	scrap: [scrapReasons],
+	balance: [balanceFacts],
+	assemble: [assemblyFacts]
 };
 
 export function loadFacts(tx: DbOrTx, unitRow: Unit, action: ActionName): UnitFacts {

@@ -50,8 +50,22 @@ const scrapReasonKnown: Guard = ({ unit, data, facts }) => {
 		: `${unit.serial}: "${code}" is not a scrap reason the shop uses; choose one from the list.`;
 };
 
+/** Balancing needs a passing balance run since the unit was last assembled (when the server said). */
+const passingBalance: Guard = ({ unit, facts }) =>
+	facts.hasPassingBalance === false
+		? `${unit.serial} has no passing balance run since it was assembled; record the runs on its balance page first.`
+		: null;
+
+/** Assembly needs a record within limits, or a deviation a lead approved (when the server said). */
+const assemblyRecorded: Guard = ({ unit, facts }) =>
+	facts.hasAssemblyRecord === false
+		? `${unit.serial} has no assembly record within limits; record end play, radial play, kits and wheels on its assembly page first (a lead may record a deviation).`
+		: null;
+
 export type GuardTable = Partial<Record<ActionName, readonly Guard[]>>;
 
 export const DEFAULT_GUARDS: GuardTable = {
-	scrap: [scrapReasonKnown]
+	scrap: [scrapReasonKnown],
+	balance: [passingBalance],
+	assemble: [assemblyRecorded]
 };

@@ -170,3 +170,132 @@ export const counter = sqliteTable('counter', {
 	name: text('name').primaryKey(),
 	value: integer('value').notNull()
 });
+
+// ---------------------------------------------------------------------------------------
+// Balancing and assembly: the model's spec, balance runs and the assembly record of a unit.
+// ---------------------------------------------------------------------------------------
+import { ALLOCATION_METHODS, CORRECTION_MODES, RUN_KINDS, PLANE_KEYS, type SpecSources } from '../../domain/balance/spec';
+import { UNBALANCE_UNITS } from '../../domain/balance/tolerance';
+
+/** Per turbo model: the numbers balancing and assembly are checked against. */
+export const modelSpec = sqliteTable('model_spec', {
+	modelId: integer('model_id')
+		.primaryKey()
+		.references(() => turboModel.id, { onDelete: 'cascade' }),
+	rotorMassKg: real('rotor_mass_kg').notNull(),
+	maxServiceRpm: integer('max_service_rpm').notNull(),
+	/** Balance quality grade G (mm/s) the shop balances to before its tightening factor. */
+	gradeG: real('grade_g').notNull(),
+	tighteningFactor: real('tightening_factor').notNull().default(1),
+	allocation: text('allocation', { enum: ALLOCATION_METHODS }).notNull().default('lever'),
+	/** Axial positions along the shaft from the compressor nose, mm. */
+	bearingCompMm: real('bearing_comp_mm').notNull(),
+	bearingTurbMm: real('bearing_turb_mm').notNull(),
+	centreOfMassMm: real('centre_of_mass_mm').notNull(),
+	planeCompMm: real('plane_comp_mm').notNull(),
+	planeTurbMm: real('plane_turb_mm').notNull(),
+	/** Correction radius in each plane, mm. */
+	radiusCompMm: real('radius_comp_mm').notNull(),
+	radiusTurbMm: real('radius_turb_mm').notNull(),
+	/** Allowed correction positions per plane (e.g. blades); 0 = anywhere on the circle. */
+	positionsComp: integer('positions_comp').notNull().default(0),
+	positionsTurb: integer('positions_turb').notNull().default(0),
+	/** What the balancing machine shows and the calculator answers in. */
+	unbalanceUnit: text('unbalance_unit', { enum: UNBALANCE_UNITS }).notNull().default('g'),
+	correctionMode: text('correction_mode', { enum: CORRECTION_MODES }).notNull().default('remove'),
+	inducerMm: real('inducer_mm').notNull(),
+	exducerMm: real('exducer_mm').notNull(),
+	tipSpeedLimitMs: real('tip_speed_limit_ms').notNull(),
+	/** Wastegate preset window, kPa gauge; null for models without a wastegate. */
+	wastegateMinKpa: real('wastegate_min_kpa'),
+	wastegateMaxKpa: real('wastegate_max_kpa'),
+	endPlayMinMm: real('end_play_min_mm').notNull(),
+	endPlayMaxMm: real('end_play_max_mm').notNull(),
+	radialPlayMinMm: real('radial_play_min_mm').notNull(),
+	radialPlayMaxMm: real('radial_play_max_mm').notNull(),
+	/** Where each number comes from: the maker's data, the shop's choice or the standard. */
+	sources: text('sources', { mode: 'json' }).$type<SpecSources>().notNull(),
+	/** Invented numbers of the demo shop. */
+	demo: integer('demo', { mode: 'boolean' }).notNull().default(false),
+	updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+	updatedBy: text('updated_by').references(() => user.id, { onDelete: 'set null' })
+});
+
+/** One run on the balancing machine: the readings per plane and what they meant. */
+export const balanceRun = sqliteTable(
+	'balance_run',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		unitId: integer('unit_id')
+			.notNull()
+			.references(() => unit.id, { onDelete: 'restrict' }),
+		/** 1, 2, 3... within the unit. */
+		runNo: integer('run_no').notNull(),
+		/** The unit's history position (its version) when the run was recorded. */
+		afterSeq: integer('after_seq').notNull(),
+		kind: text('kind', { enum: RUN_KINDS }).notNull(),
+		trialPlane: text('trial_plane', { enum: PLANE_KEYS }),
+		trialAmount: real('trial_amount'),
+		trialAngle: real('trial_angle'),
+		unbalanceUnit: text('unbalance_unit', { enum: UNBALANCE_UNITS }).notNull(),
+		compAmount: real('comp_amount').notNull(),
+		compAngle: real('comp_angle').notNull(),
+		turbAmount: real('turb_amount').notNull(),
+		turbAngle: real('turb_angle').notNull(),
+		speedRpm: integer('speed_rpm'),
+		/** How the unbalance was worked out: direct (calibrated machine), single or two-plane coefficients. */
+		method: text('method').notNull(),
+		residualCompGmm: real('residual_comp_gmm'),
+		residualTurbGmm: real('residual_turb_gmm'),
+		tolCompGmm: real('tol_comp_gmm').notNull(),
+		tolTurbGmm: real('tol_turb_gmm').notNull(),
+		passed: integer('passed', { mode: 'boolean' }).notNull(),
+		/** What the calculator said to correct, per plane (JSON), when the run failed. */
+		correction: text('correction', { mode: 'json' }).$type<Record<string, unknown>>(),
+		compWheelSerial: text('comp_wheel_serial').notNull(),
+		shaftWheelSerial: text('shaft_wheel_serial').notNull(),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'restrict' }),
+		stationId: integer('station_id').references(() => station.id, { onDelete: 'restrict' }),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+		note: text('note')
+	},
+	(t) => [uniqueIndex('balance_run_unit_no_idx').on(t.unitId, t.runNo), index('balance_run_unit_seq_idx').on(t.unitId, t.afterSeq)]
+);
+
+/** The build record of a unit: measured plays, kit lots, wheel serials, wastegate preset. */
+export const assemblyRecord = sqliteTable(
+	'assembly_record',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		unitId: integer('unit_id')
+			.notNull()
+			.references(() => unit.id, { onDelete: 'restrict' }),
+		afterSeq: integer('after_seq').notNull(),
+		endPlayMm: real('end_play_mm').notNull(),
+		radialPlayMm: real('radial_play_mm').notNull(),
+		bearingKitLot: text('bearing_kit_lot').notNull(),
+		sealKitLot: text('seal_kit_lot').notNull(),
+		compWheelSerial: text('comp_wheel_serial').notNull(),
+		shaftWheelSerial: text('shaft_wheel_serial').notNull(),
+		wastegatePresetKpa: real('wastegate_preset_kpa'),
+		withinLimits: integer('within_limits', { mode: 'boolean' }).notNull(),
+		/** The out-of-limit findings, as sentences. */
+		findings: text('findings', { mode: 'json' }).$type<string[]>().notNull(),
+		deviationReason: text('deviation_reason'),
+		/** The lead or owner who accepted the deviation. */
+		approvedBy: text('approved_by').references(() => user.id, { onDelete: 'restrict' }),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'restrict' }),
+		stationId: integer('station_id').references(() => station.id, { onDelete: 'restrict' }),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+		note: text('note')
+	},
+	(t) => [index('assembly_record_unit_seq_idx').on(t.unitId, t.afterSeq)]
+);
+
+export type ModelSpec = typeof modelSpec.$inferSelect;
+export type BalanceRun = typeof balanceRun.$inferSelect;
+export type AssemblyRecord = typeof assemblyRecord.$inferSelect;
