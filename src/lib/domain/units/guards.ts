@@ -27,6 +27,9 @@ export interface UnitFacts {
 	hasAssemblyRecord?: boolean;
 	/** A customer's unit: null when no quote is needed, otherwise whether it is approved. */
 	quoteApproved?: boolean | null;
+	/** A customer's unit (linked to a rebuild order), and what became of its quote. */
+	customerUnit?: boolean;
+	quoteDeclined?: boolean;
 	[key: string]: unknown;
 }
 
@@ -50,8 +53,13 @@ const scrapReasonKnown: Guard = ({ unit, data, facts }) => {
 		: `${unit.serial}: "${code}" is not a scrap reason the shop uses; choose one from the list.`;
 };
 
+export { quoteApprovedBeforeWork, returnOnlyCustomerUnits } from './customer-guards';
+import { quoteApprovedBeforeWork, returnOnlyCustomerUnits } from './customer-guards';
+
 export type GuardTable = Partial<Record<ActionName, readonly Guard[]>>;
 
 export const DEFAULT_GUARDS: GuardTable = {
-	scrap: [scrapReasonKnown]
+	scrap: [scrapReasonKnown],
+	clean: [quoteApprovedBeforeWork],
+	return: [returnOnlyCustomerUnits]
 };
