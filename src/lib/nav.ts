@@ -11,5 +11,7 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/', label: 'Home', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/stations', label: 'Stations', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/units', label: 'Units', roles: ['owner', 'lead', 'office', 'tech'] },
+	{ href: '/orders', label: 'Orders', roles: ['owner', 'lead', 'office'] },
+	{ href: '/shipments', label: 'Shipments', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/admin/users', label: 'People', roles: ['owner'] }
 ];
