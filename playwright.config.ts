@@ -30,7 +30,11 @@ export default defineConfig({
 			PORT: String(PORT),
 			HOST: '127.0.0.1',
 			ORIGIN: origin,
-			DATABASE_URL: 'data/e2e.db'
+			DATABASE_URL: 'data/e2e.db',
+			// customer e-mail and payments: the local SMTP and payment fakes on free ports
+			MAIL_MODE: 'fake',
+			PAYMENT_MODE: 'fake',
+			OUTBOX_POLL_MS: '250'
 		}
 	}
 });

@@ -19,7 +19,9 @@ const config = {
 				'media-src': ['self', 'blob:'],
 				'object-src': ['none'],
 				'base-uri': ['self'],
-				'form-action': ['self'],
+				// The local payment fake's checkout page runs on 127.0.0.1 (any port); a real
+				// provider's checkout host goes here in production.
+				'form-action': ['self', 'http://127.0.0.1:*'],
 				'frame-ancestors': ['none']
 			}
 		}

@@ -1,12 +1,15 @@
 import { error, json, redirect, type Handle } from '@sveltejs/kit';
 import { sequence } from '@sveltejs/kit/hooks';
+import { building } from '$app/environment';
 import { checkAccess } from '$lib/server/access';
 import { appAuth } from '$lib/server/app-auth';
 import { getDb } from '$lib/server/db';
+import { startCustomerServices } from '$lib/server/customer-services';
 
 /** Open the database (and run migrations) before the first request. */
 export const init = async () => {
 	getDb();
+	if (!building) await startCustomerServices(getDb());
 };
 
 const authenticate: Handle = async ({ event, resolve }) => {

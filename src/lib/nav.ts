@@ -12,5 +12,7 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/stations', label: 'Stations', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/units', label: 'Units', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/models', label: 'Models', roles: ['owner', 'lead', 'tech'] },
+	{ href: '/orders', label: 'Orders', roles: ['owner', 'lead', 'office'] },
+	{ href: '/shipments', label: 'Shipments', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/admin/users', label: 'People', roles: ['owner'] }
 ];

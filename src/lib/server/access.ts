@@ -4,7 +4,7 @@
  * (load and form actions alike); API routes per HTTP method.
  */
 import type { Role } from '../domain/auth/roles';
-import { ALL_ROLES, FLOOR_ROLES } from '../domain/auth/roles';
+import { ALL_ROLES, FLOOR_ROLES, INTAKE_ROLES, STEERING_ROLES } from '../domain/auth/roles';
 
 export type Audience = readonly Role[] | 'public';
 type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -42,7 +42,18 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/stations': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/balance-runs': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/units/[serial=serial]/assembly': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
-	'/api/stream': { read: ALL_ROLES }
+	'/api/stream': { read: ALL_ROLES },
+
+	// Customers' own units: orders, shipments, the status link, payments, the test mailbox.
+	'/(app)/orders': { read: INTAKE_ROLES },
+	'/(app)/orders/[id=id]': { read: INTAKE_ROLES },
+	'/(app)/shipments': { read: ALL_ROLES, write: STEERING_ROLES },
+	'/(app)/shipments/[id=id]': { read: ALL_ROLES },
+	'/(app)/shipments/[id=id]/slip': { read: ALL_ROLES },
+	'/(app)/dev/mail': { read: OWNER },
+	'/api/dev/mail/[id=id]': { read: OWNER },
+	'/track/[token]': { read: 'public' },
+	'/api/payments/webhook': { read: 'public', methods: { POST: 'public' } }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

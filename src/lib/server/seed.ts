@@ -13,6 +13,7 @@ import { hashPassword } from './auth';
 import type { Db } from './db';
 import { allocateSerials } from './units';
 import { demoBuildRecords } from './seed-balance';
+import { seedCustomerOrders } from './seed-customer';
 import { coreLot, scrapReason, station, supplier, turboModel, unit, unitEvent, user, type LotSource } from './db/schema';
 
 export const DEMO_SHOP = 'Corvid Hill Turbo Works';
@@ -256,6 +257,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 				events += rows.length;
 			}
 		}
+		seedCustomerOrders(tx, { now, random, shopName: DEMO_SHOP, office, tech: techs[0], stationIds, modelIds });
 		return { users: userIds.length, lots: lotCount, units, events };
 	});
 }

@@ -8,6 +8,7 @@ import type { UnitFacts } from '../domain/units/guards';
 import type { DbOrTx } from './db';
 import { scrapReason, type Unit } from './db/schema';
 import { hasAcceptedAssembly, hasPassingBalance } from './balance';
+import { customerQuoteFacts } from './rebuild-facts';
 
 export type FactLoader = (tx: DbOrTx, unit: Unit) => Partial<UnitFacts>;
 
@@ -26,7 +27,9 @@ const assemblyFacts: FactLoader = (tx, u) => ({ hasAssemblyRecord: hasAcceptedAs
 export const FACT_LOADERS: Partial<Record<ActionName, readonly FactLoader[]>> = {
 	scrap: [scrapReasons],
 	balance: [balanceFacts],
-	assemble: [assemblyFacts]
+	assemble: [assemblyFacts],
+	clean: [customerQuoteFacts],
+	return: [customerQuoteFacts]
 };
 
 export function loadFacts(tx: DbOrTx, unitRow: Unit, action: ActionName): UnitFacts {

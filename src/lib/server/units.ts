@@ -13,6 +13,7 @@ import type { Db, DbOrTx } from './db';
 import { coreLot, counter, station, supplier, turboModel, unit, unitEvent, user, type Unit } from './db/schema';
 import { publish } from './live';
 import { loadFacts } from './unit-facts';
+import { afterUnitMove } from './rebuild-notify';
 
 export interface Actor {
 	id: string;
@@ -270,6 +271,7 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 				.where(and(eq(unit.id, row.id), eq(unit.version, row.version)))
 				.run();
 			if (updated.changes !== 1) throw new Error(`lost update on ${row.serial}`);
+			afterUnitMove(tx, row, input.action, decision.to, now);
 			const ev = eventViewQuery(tx).where(eq(unitEvent.id, inserted.id)).get()!;
 			return { ok: true, status: 201, replayed: false, unit: current(), event: toEventView(ev) };
 		},

@@ -24,7 +24,8 @@ export const ACTIONS = [
 	'ship',
 	'hold',
 	'release',
-	'rework'
+	'rework',
+	'return'
 ] as const;
 export type ActionName = (typeof ACTIONS)[number];
 
@@ -65,7 +66,9 @@ export const actionData = {
 			toStage: z.enum(STAGES, { error: 'Choose the stage to send it back to.' }),
 			reason: reasonText
 		})
-		.passthrough()
+		.passthrough(),
+	/** A customer's unit sent back unrepaired after a declined quote. */
+	return: z.object({}).passthrough()
 } satisfies Record<ActionName, z.ZodType>;
 
 export interface ActionInfo {
@@ -81,6 +84,9 @@ export interface ActionInfo {
 	/** Roles that may make it without standing at a station of the right stage. */
 	anywhere: readonly Role[];
 }
+
+/** The office and the lead send a customer's unit back unrepaired. */
+const RETURN_ROLES: readonly Role[] = ['office', 'lead', 'owner'];
 
 function stageMove(name: ActionName, stage: Stage, label: string, done: string): ActionInfo {
 	return { name, label, done, stage, roles: FLOOR_ROLES, anywhere: STEERING_ROLES };
@@ -135,8 +141,19 @@ export const ACTION_INFO: Record<ActionName, ActionInfo> = {
 		stage: null,
 		roles: STEERING_ROLES,
 		anywhere: STEERING_ROLES
+	},
+	return: {
+		name: 'return',
+		label: 'Return unrepaired',
+		done: 'Returned unrepaired',
+		stage: null,
+		roles: RETURN_ROLES,
+		anywhere: RETURN_ROLES
 	}
 };
+
+/** States from which a customer's unit may go back to them unrepaired (after the verdict, before work). */
+export const RETURNABLE: readonly UnitState[] = ['inspected', 'accepted'];
 
 /** The state each stage move needs and the state it leaves. */
 export const MOVES: Partial<Record<ActionName, { from: readonly UnitState[]; to: UnitState }>> = {

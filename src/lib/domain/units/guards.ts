@@ -27,6 +27,9 @@ export interface UnitFacts {
 	hasAssemblyRecord?: boolean;
 	/** A customer's unit: null when no quote is needed, otherwise whether it is approved. */
 	quoteApproved?: boolean | null;
+	/** A customer's unit (linked to a rebuild order), and what became of its quote. */
+	customerUnit?: boolean;
+	quoteDeclined?: boolean;
 	[key: string]: unknown;
 }
 
@@ -61,11 +64,15 @@ const assemblyRecorded: Guard = ({ unit, facts }) =>
 	facts.hasAssemblyRecord === false
 		? `${unit.serial} has no assembly record within limits; record end play, radial play, kits and wheels on its assembly page first (a lead may record a deviation).`
 		: null;
+export { quoteApprovedBeforeWork, returnOnlyCustomerUnits } from './customer-guards';
+import { quoteApprovedBeforeWork, returnOnlyCustomerUnits } from './customer-guards';
 
 export type GuardTable = Partial<Record<ActionName, readonly Guard[]>>;
 
 export const DEFAULT_GUARDS: GuardTable = {
 	scrap: [scrapReasonKnown],
 	balance: [passingBalance],
-	assemble: [assemblyRecorded]
+	assemble: [assemblyRecorded],
+	clean: [quoteApprovedBeforeWork],
+	return: [returnOnlyCustomerUnits]
 };

@@ -3,7 +3,7 @@
  * unit as, and replays a unit's history to its current state. Pure: no storage.
  */
 import type { Role } from '../auth/roles';
-import { ACTION_INFO, MOVES, SCRAPPABLE, actionData, type ActionName } from './actions';
+import { ACTION_INFO, MOVES, RETURNABLE, SCRAPPABLE, actionData, type ActionName } from './actions';
 import { DEFAULT_GUARDS, type GuardTable, type UnitFacts, type UnitSnapshot } from './guards';
 import {
 	FLOW,
@@ -225,6 +225,17 @@ export function decide(
 			to = target;
 			break;
 		}
+		case 'return':
+			if (!RETURNABLE.includes(unit.state)) {
+				return {
+					ok: false,
+					kind: 'refused',
+					message: `${describe(unit)}; only a unit that is torn down or accepted, before any work, can go back unrepaired.`
+				};
+			}
+			to = 'shipped';
+			data.unrepaired = true;
+			break;
 		default: {
 			const move = MOVES[request.action];
 			if (!move || !info.stage) {

@@ -299,3 +299,186 @@ export const assemblyRecord = sqliteTable(
 export type ModelSpec = typeof modelSpec.$inferSelect;
 export type BalanceRun = typeof balanceRun.$inferSelect;
 export type AssemblyRecord = typeof assemblyRecord.$inferSelect;
+// Customers' own units: rebuild orders, status links, quotes, payments, e-mail, shipments.
+// ---------------------------------------------------------------------------------------
+
+export const rebuildOrder = sqliteTable(
+	'rebuild_order',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		code: text('code').notNull().unique(),
+		customerName: text('customer_name').notNull(),
+		email: text('email').notNull(),
+		phone: text('phone').notNull().default(''),
+		shipAddress: text('ship_address').notNull(),
+		complaint: text('complaint').notNull(),
+		/** Calendar date promised to the customer, YYYY-MM-DD. */
+		promisedOn: text('promised_on'),
+		unitId: integer('unit_id')
+			.notNull()
+			.unique()
+			.references(() => unit.id, { onDelete: 'restrict' }),
+		notifyReceived: integer('notify_received', { mode: 'boolean' }).notNull().default(true),
+		notifyQuote: integer('notify_quote', { mode: 'boolean' }).notNull().default(true),
+		notifyInWork: integer('notify_in_work', { mode: 'boolean' }).notNull().default(true),
+		notifyShipped: integer('notify_shipped', { mode: 'boolean' }).notNull().default(true),
+		/** After a declined quote: what the customer wants done with the unit. */
+		declineChoice: text('decline_choice', { enum: ['return', 'scrap'] }),
+		createdBy: text('created_by').references(() => user.id, { onDelete: 'restrict' }),
+		createdAt: createdAt()
+	},
+	(t) => [index('rebuild_order_email_idx').on(t.email)]
+);
+
+export const trackLink = sqliteTable(
+	'track_link',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		orderId: integer('order_id')
+			.notNull()
+			.references(() => rebuildOrder.id, { onDelete: 'cascade' }),
+		/** SHA-256 of the token, hex. The token itself is never stored. */
+		tokenHash: text('token_hash').notNull().unique(),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' }).notNull(),
+		expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull(),
+		revokedAt: integer('revoked_at', { mode: 'timestamp_ms' })
+	},
+	(t) => [index('track_link_order_idx').on(t.orderId)]
+);
+
+export const QUOTE_STATUSES = ['draft', 'sent', 'approved', 'declined'] as const;
+
+export const quote = sqliteTable(
+	'quote',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		orderId: integer('order_id')
+			.notNull()
+			.references(() => rebuildOrder.id, { onDelete: 'cascade' }),
+		status: text('status', { enum: QUOTE_STATUSES }).notNull().default('draft'),
+		/** Tax rate in basis points (825 = 8.25 %), copied from the setting when the quote is sent. */
+		taxRateBp: integer('tax_rate_bp').notNull().default(0),
+		/** Core charge (positive) or core credit (negative), in cents; not taxed. */
+		coreCents: integer('core_cents').notNull().default(0),
+		coreNote: text('core_note').notNull().default(''),
+		/** Totals fixed when the quote is sent. */
+		subtotalCents: integer('subtotal_cents').notNull().default(0),
+		taxCents: integer('tax_cents').notNull().default(0),
+		totalCents: integer('total_cents').notNull().default(0),
+		sentAt: integer('sent_at', { mode: 'timestamp_ms' }),
+		decidedAt: integer('decided_at', { mode: 'timestamp_ms' }),
+		checkoutSessionId: text('checkout_session_id'),
+		paidAt: integer('paid_at', { mode: 'timestamp_ms' }),
+		paidCents: integer('paid_cents'),
+		createdAt: createdAt()
+	},
+	(t) => [index('quote_order_idx').on(t.orderId)]
+);
+
+export const quoteLine = sqliteTable(
+	'quote_line',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		quoteId: integer('quote_id')
+			.notNull()
+			.references(() => quote.id, { onDelete: 'cascade' }),
+		kind: text('kind', { enum: ['part', 'labour'] }).notNull(),
+		description: text('description').notNull(),
+		/** Quantity in hundredths (labour hours may be 1.25). */
+		quantityHundredths: integer('quantity_hundredths').notNull(),
+		unitPriceCents: integer('unit_price_cents').notNull(),
+		sortOrder: integer('sort_order').notNull().default(0)
+	},
+	(t) => [index('quote_line_quote_idx').on(t.quoteId)]
+);
+
+/** Webhook events from the payment provider already handled (a replay changes nothing). */
+export const paymentEvent = sqliteTable('payment_event', {
+	id: text('id').primaryKey(),
+	type: text('type').notNull(),
+	quoteId: integer('quote_id').references(() => quote.id, { onDelete: 'set null' }),
+	receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull()
+});
+
+export const OUTBOX_STATUSES = ['pending', 'sending', 'sent', 'failed'] as const;
+
+/** E-mail waiting to go out, written in the same transaction as the change it reports. */
+export const outboxMessage = sqliteTable(
+	'outbox_message',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		kind: text('kind').notNull(),
+		orderId: integer('order_id').references(() => rebuildOrder.id, { onDelete: 'set null' }),
+		toAddress: text('to_address').notNull(),
+		subject: text('subject').notNull(),
+		textBody: text('text_body').notNull(),
+		htmlBody: text('html_body').notNull(),
+		status: text('status', { enum: OUTBOX_STATUSES }).notNull().default('pending'),
+		attempts: integer('attempts').notNull().default(0),
+		nextAttemptAt: integer('next_attempt_at', { mode: 'timestamp_ms' }).notNull(),
+		leaseOwner: text('lease_owner'),
+		leaseUntil: integer('lease_until', { mode: 'timestamp_ms' }),
+		lastError: text('last_error'),
+		sentAt: integer('sent_at', { mode: 'timestamp_ms' }),
+		createdAt: createdAt()
+	},
+	(t) => [index('outbox_due_idx').on(t.status, t.nextAttemptAt), index('outbox_order_idx').on(t.orderId)]
+);
+
+/** Every message the local SMTP fake accepted (dev, demo and tests only). */
+export const devMail = sqliteTable('dev_mail', {
+	id: integer('id').primaryKey({ autoIncrement: true }),
+	mailFrom: text('mail_from').notNull(),
+	rcptTo: text('rcpt_to').notNull(),
+	subject: text('subject').notNull().default(''),
+	raw: text('raw').notNull(),
+	receivedAt: integer('received_at', { mode: 'timestamp_ms' }).notNull()
+});
+
+export const rebuildSetting = sqliteTable('rebuild_setting', {
+	key: text('key').primaryKey(),
+	value: text('value').notNull()
+});
+
+export const shipLocation = sqliteTable('ship_location', {
+	id: integer('id').primaryKey({ autoIncrement: true }),
+	name: text('name').notNull().unique(),
+	address: text('address').notNull().default(''),
+	active: integer('active', { mode: 'boolean' }).notNull().default(true)
+});
+
+export const SHIP_DESTINATIONS = ['distributor', 'web_order', 'customer'] as const;
+
+export const shipment = sqliteTable(
+	'shipment',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		code: text('code').notNull().unique(),
+		destination: text('destination', { enum: SHIP_DESTINATIONS }).notNull(),
+		locationId: integer('location_id').references(() => shipLocation.id, { onDelete: 'restrict' }),
+		orderId: integer('order_id').references(() => rebuildOrder.id, { onDelete: 'restrict' }),
+		/** Web order number, for web orders. */
+		reference: text('reference').notNull().default(''),
+		shipTo: text('ship_to').notNull(),
+		carrier: text('carrier').notNull(),
+		trackingNumber: text('tracking_number').notNull(),
+		createdBy: text('created_by').references(() => user.id, { onDelete: 'restrict' }),
+		createdAt: integer('created_at', { mode: 'timestamp_ms' }).notNull()
+	},
+	(t) => [index('shipment_location_idx').on(t.locationId)]
+);
+
+export const shipmentUnit = sqliteTable('shipment_unit', {
+	shipmentId: integer('shipment_id')
+		.notNull()
+		.references(() => shipment.id, { onDelete: 'cascade' }),
+	unitId: integer('unit_id')
+		.primaryKey()
+		.references(() => unit.id, { onDelete: 'restrict' })
+});
+
+export type RebuildOrder = typeof rebuildOrder.$inferSelect;
+export type Quote = typeof quote.$inferSelect;
+export type QuoteLine = typeof quoteLine.$inferSelect;
+export type OutboxMessage = typeof outboxMessage.$inferSelect;
+export type Shipment = typeof shipment.$inferSelect;

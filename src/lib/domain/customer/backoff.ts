@@ -1,0 +1,17 @@
+/**
+ * When to try an undelivered e-mail again: capped exponential back-off without jitter
+ * (base × 2^(attempt−1), at most `capMs`), giving up after `maxAttempts`.
+ */
+export interface BackoffPolicy {
+	baseMs: number;
+	capMs: number;
+	maxAttempts: number;
+}
+
+export const MAIL_BACKOFF: BackoffPolicy = { baseMs: 30_000, capMs: 3_600_000, maxAttempts: 8 };
+
+/** Delay before the next try after `attempts` failed tries (1 = the first failure); null = give up. */
+export function retryDelayMs(attempts: number, policy: BackoffPolicy = MAIL_BACKOFF): number | null {
+	if (attempts >= policy.maxAttempts) return null;
+	return Math.min(policy.capMs, policy.baseMs * 2 ** Math.max(0, attempts - 1));
+}

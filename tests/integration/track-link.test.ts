@@ -1,0 +1,84 @@
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, expect, test } from 'vitest';
+import { eq } from 'drizzle-orm';
+import { trackLink } from '../../src/lib/server/db/schema';
+import { hashToken, resolveTrackToken } from '../../src/lib/server/track-links';
+import { resendTrackLink, revokeOrderLinks } from '../../src/lib/server/rebuild-orders';
+import { customerShop, newOrder } from '../helpers/customer';
+import type { TestShop } from '../helpers/db';
+
+// The route uses the application's connection, opened from DATABASE_URL.
+const dir = mkdtempSync(join(tmpdir(), 'spoolyard-track-'));
+const dbFile = join(dir, 'track.db');
+process.env.DATABASE_URL = dbFile;
+process.env.TRACK_RATE_LIMIT = '6';
+
+let shop: TestShop;
+let load: (typeof import('../../src/routes/track/[token]/+page.server'))['load'];
+
+beforeAll(async () => {
+	shop = customerShop(dbFile);
+	load = (await import('../../src/routes/track/[token]/+page.server')).load;
+});
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+let addr = 0;
+/** Open the status page the way the framework does; returns the page data or the error it threw. */
+async function open(token: string, address = `10.0.0.${++addr}`) {
+	try {
+		const data = await load({
+			params: { token },
+			getClientAddress: () => address,
+			setHeaders: () => {},
+			url: new URL(`http://localhost/track/${token}`)
+			// eslint-disable-next-line @typescript-eslint/no-explicit-any
+		} as any);
+		return { ok: true as const, data };
+	} catch (e) {
+		const err = e as { status?: number; body?: unknown };
+		return { ok: false as const, status: err.status, body: err.body };
+	}
+}
+
+test('a live link opens the page; tampered, expired and revoked links all get the same answer', async () => {
+	const a = newOrder(shop);
+	const live = await open(a.token);
+	expect(live.ok).toBe(true);
+
+	// tampered: one character changed
+	const tampered = a.token.slice(0, -1) + (a.token.endsWith('A') ? 'B' : 'A');
+	// expired: a link whose expiry has passed
+	const b = newOrder(shop);
+	shop.db.update(trackLink).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(trackLink.tokenHash, hashToken(b.token))).run();
+	// revoked by the office
+	const c = newOrder(shop);
+	expect(revokeOrderLinks(shop.db, c.order.id)).toBe(1);
+
+	const answers = [await open(tampered), await open(b.token), await open(c.token), await open('not-even-a-token'), await open('A'.repeat(43))];
+	for (const r of answers) expect(r).toEqual({ ok: false, status: 404, body: { message: 'This link is not valid. Ask the shop to send you a new one.' } });
+});
+
+test('re-sending a link revokes the old one and e-mails a new one', () => {
+	const a = newOrder(shop);
+	const fresh = resendTrackLink(shop.db, a.order.id);
+	expect(resolveTrackToken(shop.db, a.token)).toBeNull();
+	expect(resolveTrackToken(shop.db, fresh)).toBe(a.order.id);
+	// only the hash is stored
+	const stored = shop.db.select().from(trackLink).where(eq(trackLink.orderId, a.order.id)).all();
+	expect(stored.every((l) => l.tokenHash.length === 64 && l.tokenHash !== fresh && l.tokenHash !== a.token)).toBe(true);
+	// a link lasts 90 days by default
+	const days = (stored[1].expiresAt.getTime() - stored[1].createdAt.getTime()) / 86_400_000;
+	expect(days).toBe(90);
+});
+
+test('the rate limit holds per address, for good and bad tokens alike', async () => {
+	const a = newOrder(shop);
+	const results = [];
+	for (let i = 0; i < 8; i++) results.push(await open(i % 2 ? a.token : 'B'.repeat(43), '192.0.2.7'));
+	expect(results.slice(0, 6).map((r) => (r.ok ? 200 : r.status))).toEqual([404, 200, 404, 200, 404, 200]);
+	expect(results.slice(6).map((r) => (r.ok ? 200 : r.status))).toEqual([429, 429]);
+	// another address is not affected
+	expect((await open(a.token, '192.0.2.8')).ok).toBe(true);
+});
