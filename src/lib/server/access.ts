@@ -4,7 +4,7 @@
  * (load and form actions alike); API routes per HTTP method.
  */
 import type { Role } from '../domain/auth/roles';
-import { ALL_ROLES, FLOOR_ROLES } from '../domain/auth/roles';
+import { ALL_ROLES, FLOOR_ROLES, INTAKE_ROLES } from '../domain/auth/roles';
 
 export type Audience = readonly Role[] | 'public';
 type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -36,7 +36,19 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/units/[serial=serial]': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/events': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/stations': { read: ALL_ROLES },
-	'/api/stream': { read: ALL_ROLES }
+	'/api/stream': { read: ALL_ROLES },
+
+	// Lot intake, travelers and printed histories
+	'/(app)/lots': { read: ALL_ROLES },
+	'/(app)/lots.csv': { read: ALL_ROLES },
+	'/(app)/lots/new': { read: INTAKE_ROLES },
+	'/(app)/lots/[code=code]': { read: ALL_ROLES, write: INTAKE_ROLES },
+	'/(app)/lots/[code=code]/import': { read: INTAKE_ROLES },
+	'/(app)/suppliers': { read: ALL_ROLES, write: ['owner', 'office'] },
+	'/(print)/lots/[code=code]/travelers': { read: ALL_ROLES },
+	'/(print)/units/[serial=serial]/traveler': { read: ALL_ROLES },
+	'/(print)/units/[serial=serial]/print': { read: ALL_ROLES },
+	'/api/units/[serial=serial]/barcode': { read: ALL_ROLES }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

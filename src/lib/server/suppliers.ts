@@ -1,8 +1,12 @@
 /** Suppliers of cores: the office and the owner keep the list. */
 import { asc, eq, sql } from 'drizzle-orm';
+import type { Role } from '../domain/auth/roles';
 import { supplierSchema, type SupplierForm } from '../domain/lots/lot';
 import type { Db, DbOrTx } from './db';
 import { coreLot, supplier, unit } from './db/schema';
+
+/** Who keeps the supplier list; everyone signed in may read it. */
+export const SUPPLIER_EDITORS: readonly Role[] = ['owner', 'office'];
 
 export interface SupplierView {
 	id: number;

@@ -7,7 +7,7 @@
  */
 import Papa from 'papaparse';
 
-export const MAX_IMPORT_BYTES = 1024 * 1024;
+export const MAX_IMPORT_BYTES = 256 * 1024;
 export const MAX_IMPORT_ROWS = 2000;
 
 export interface CsvTable {
@@ -27,7 +27,7 @@ const SAVE_AS = 'Save it from the spreadsheet as "CSV UTF-8" and upload it again
 export function decodeCsvBytes(bytes: Uint8Array): CsvResult<string> {
 	if (bytes.length === 0) return { ok: false, message: 'The file is empty. Choose the manifest file and upload it again.' };
 	if (bytes.length > MAX_IMPORT_BYTES) {
-		return { ok: false, message: `The file is ${(bytes.length / 1024 / 1024).toFixed(1)} MB; the most we take at once is 1 MB. Split it and import the parts.` };
+		return { ok: false, message: `The file is ${Math.ceil(bytes.length / 1024)} KB; the most we take at once is 256 KB. Split it and import the parts.` };
 	}
 	// UTF-16 and UTF-32 byte-order marks (Unicode Standard, ch. 23.8 "Specials": U+FEFF as BOM).
 	if ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff)) {
