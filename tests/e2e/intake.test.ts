@@ -1,0 +1,100 @@
+import { expect, test } from '@playwright/test';
+import { signIn } from './helpers';
+
+const MANIFEST = ['Core tag,Model,Notes', 'AX-500101,CH-F46,Oil in the intake', 'AX-500102,CH-V55,', 'AX-500103,CH-X00,Model not ours', 'AX-500104,CH-P61,', 'AX-500105,CH-F52,Cracked flange?', ''].join('\r\n');
+
+test('the office creates a lot, imports a manifest with one bad row and prints its travelers', async ({ page }) => {
+	await signIn(page, 'office');
+	await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Lots' }).click();
+	await expect(page.getByTestId('lot-table')).toBeVisible();
+	await page.getByTestId('new-lot').click();
+
+	// a skid without a supplier gets a field error and nothing is saved
+	await page.getByLabel('Cores expected').fill('5');
+	await page.getByTestId('create-lot').click();
+	await expect(page.getByText('A purchased skid needs its supplier.')).toBeVisible();
+
+	await page.getByLabel(/^Supplier/).selectOption({ label: 'Pellworth Fleet Services' });
+	await page.getByLabel('Cost per core').fill('42.50');
+	await page.getByLabel('Notes').fill('Fleet pulls, second skid this month.');
+	await page.getByTestId('create-lot').click();
+	await expect(page).toHaveURL(/\/lots\/L\d{6}-\d+\?created=1$/);
+	const code = (await page.getByTestId('lot-code').innerText()).trim();
+
+	await page.getByTestId('import-link').click();
+	await page.getByLabel(/^Manifest/).setInputFiles({ name: 'skid.csv', mimeType: 'text/csv', buffer: Buffer.from(MANIFEST, 'utf8') });
+	await page.getByTestId('read-file').click();
+	await expect(page.getByTestId('check-summary')).toContainText('4 rows ready');
+	const bad = page.getByTestId('bad-rows').locator('tbody tr');
+	await expect(bad).toHaveCount(1);
+	await expect(bad.first()).toContainText('4');
+	await expect(bad.first()).toContainText('Unknown model "CH-X00".');
+	await expect(page.getByTestId('map-model')).toHaveValue('1');
+
+	await page.getByTestId('confirm-import').click();
+	await expect(page.getByTestId('import-done')).toContainText('4 units imported');
+	await expect(page.getByTestId('skipped-rows').locator('tbody tr')).toHaveCount(1);
+
+	await page.goto(`/lots/${code}`);
+	await expect(page.getByTestId('lot-units').locator('tbody tr')).toHaveCount(4);
+	await page.getByTestId('travelers-label').click();
+	await expect(page).toHaveURL(new RegExp(`/lots/${code}/travelers\\?layout=label`));
+	await expect(page.getByTestId('traveler')).toHaveCount(4);
+	for (const kind of ['barcode-code128', 'barcode-datamatrix']) {
+		const imgs = page.getByTestId(kind);
+		await expect(imgs).toHaveCount(4);
+		for (let i = 0; i < 4; i++) {
+			await expect.poll(() => imgs.nth(i).evaluate((el: HTMLImageElement) => el.complete && el.naturalWidth > 0)).toBe(true);
+		}
+	}
+	// the sheet layout puts the same four on one page
+	await page.goto(`/lots/${code}/travelers?layout=sheet`);
+	await expect(page.locator('.sheet')).toHaveCount(1);
+	await expect(page.getByTestId('barcode-code128')).toHaveCount(4);
+});
+
+test('files we cannot read get a clear message', async ({ page }) => {
+	await signIn(page, 'lead');
+	await page.goto('/lots');
+	await page.getByTestId('lot-table').locator('tbody tr').first().locator('a').first().click();
+	await page.getByTestId('import-link').click();
+	const upload = async (buffer: Buffer) => {
+		await page.getByLabel(/^Manifest/).setInputFiles({ name: 'm.csv', mimeType: 'text/csv', buffer });
+		await page.getByTestId('read-file').click();
+	};
+	await upload(Buffer.alloc(0));
+	await expect(page.getByTestId('import-error')).toContainText('The file is empty');
+	await upload(Buffer.from('Tag,Model,Notes\r\n'));
+	await expect(page.getByTestId('import-error')).toContainText('header row but no data rows');
+	await upload(Buffer.from('Tag,Model,Notes\r\nAX-1,CH-F46,Caf\u00e9\r\n', 'latin1'));
+	await expect(page.getByTestId('import-error')).toContainText('not UTF-8');
+	await upload(Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from('Tag,Model\r\nAX-1,CH-F46\r\n', 'utf16le')]));
+	await expect(page.getByTestId('import-error')).toContainText('UTF-16');
+});
+
+test('a unit links to its traveler and its printable history', async ({ page }) => {
+	await signIn(page, 'tech');
+	await page.goto('/units');
+	const serial = (await page.getByTestId('unit-table').locator('tbody tr').first().locator('td').first().innerText()).trim();
+	await page.goto(`/units/${serial}`);
+	await page.getByTestId('unit-print').click();
+	await expect(page.getByTestId('record-serial')).toHaveText(serial);
+	await expect(page.getByTestId('record-lot')).toHaveText(/^L\d{6}-\d+$/);
+	await expect(page.getByTestId('record-history').locator('tbody tr').first()).toContainText('Received');
+	await page.goto(`/units/${serial}/traveler`);
+	await expect(page.getByTestId('traveler')).toHaveAttribute('data-serial', serial);
+	await expect.poll(() => page.getByTestId('barcode-code128').evaluate((el: HTMLImageElement) => el.naturalWidth)).toBeGreaterThan(0);
+});
+
+test('a tech cannot create a lot', async ({ page }) => {
+	await signIn(page, 'tech');
+	const res = await page.goto('/lots/new');
+	expect(res?.status()).toBe(403);
+	await page.goto('/lots');
+	await expect(page.getByTestId('new-lot')).toHaveCount(0);
+	const post = await page.request.post('/lots/new', {
+		form: { source: 'purchased_skid', supplierId: '1', receivedOn: '2026-12-01', costPerCore: '1', expectedCount: '1', notes: '' },
+		headers: { origin: new URL(page.url()).origin }
+	});
+	expect(post.status()).toBe(403);
+});
