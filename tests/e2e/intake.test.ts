@@ -37,20 +37,40 @@ test('the office creates a lot, imports a manifest with one bad row and prints i
 
 	await page.goto(`/lots/${code}`);
 	await expect(page.getByTestId('lot-units').locator('tbody tr')).toHaveCount(4);
+	// one more by hand: a tag already in the lot is refused, a new one is received
+	const add = page.getByTestId('add-unit');
+	await add.getByLabel('Model').selectOption('CH-F58');
+	await add.getByLabel('Original tag').fill('ax-500102');
+	await add.getByRole('button', { name: 'Receive unit' }).click();
+	await expect(add.getByText(/Tag ax-500102 is already in this lot \(SY-\d{5}\)\./)).toBeVisible();
+	await add.getByLabel('Original tag').fill('AX-500199');
+	await add.getByRole('button', { name: 'Receive unit' }).click();
+	await expect(page.getByTestId('add-unit-done')).toContainText(`received into ${code}`);
+	await expect(page.getByTestId('lot-units').locator('tbody tr')).toHaveCount(5);
+	await expect(add.getByLabel('Model')).toHaveValue('CH-F58');
+	await page.getByTestId('lot-units').locator('tbody tr').filter({ hasText: 'AX-500199' }).getByRole('link', { name: 'Traveler' }).click();
+	await expect(page.getByTestId('traveler')).toHaveCount(1);
+	await page.goBack();
 	await page.getByTestId('travelers-label').click();
 	await expect(page).toHaveURL(new RegExp(`/lots/${code}/travelers\\?layout=label`));
-	await expect(page.getByTestId('traveler')).toHaveCount(4);
+	await expect(page.getByTestId('traveler')).toHaveCount(5);
 	for (const kind of ['barcode-code128', 'barcode-datamatrix']) {
 		const imgs = page.getByTestId(kind);
-		await expect(imgs).toHaveCount(4);
-		for (let i = 0; i < 4; i++) {
+		await expect(imgs).toHaveCount(5);
+		for (let i = 0; i < 5; i++) {
 			await expect.poll(() => imgs.nth(i).evaluate((el: HTMLImageElement) => el.complete && el.naturalWidth > 0)).toBe(true);
 		}
 	}
-	// the sheet layout puts the same four on one page
+	// the sheet layout puts the same five on one page
 	await page.goto(`/lots/${code}/travelers?layout=sheet`);
 	await expect(page.locator('.sheet')).toHaveCount(1);
-	await expect(page.getByTestId('barcode-code128')).toHaveCount(4);
+	await expect(page.getByTestId('barcode-code128')).toHaveCount(5);
+
+	// and the lot list shows it, with its counts in the CSV report
+	const csv = await page.request.get('/lots.csv');
+	expect(csv.headers()['content-type']).toContain('text/csv');
+	const line = (await csv.text()).split('\r\n').find((l) => l.startsWith(`${code},`));
+	expect(line).toContain(',Purchased skid,Pellworth Fleet Services,42.50,5,5,5,0,0,0,0,');
 });
 
 test('files we cannot read get a clear message', async ({ page }) => {

@@ -4,8 +4,17 @@
  */
 import zxing from '@zxing/library';
 import { PNG } from 'pngjs';
-import { describe, expect, test } from 'vitest';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, describe, expect, test } from 'vitest';
 import { barcodePng, barcodeSvg } from '../../src/lib/server/barcode';
+import { testShop } from '../helpers/db';
+
+// The route handler uses the application's connection, opened from DATABASE_URL.
+const dir = mkdtempSync(join(tmpdir(), 'spoolyard-barcode-'));
+process.env.DATABASE_URL = join(dir, 'barcode.db');
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
 const { BarcodeFormat, BinaryBitmap, DecodeHintType, HybridBinarizer, MultiFormatReader, RGBLuminanceSource } = zxing;
 
@@ -55,5 +64,27 @@ describe('traveler barcodes decode to the serial', () => {
 		expect(svg.startsWith('<svg')).toBe(true);
 		expect(svg).toContain('viewBox');
 		expect(svg).toContain('#FFFFFF');
+	});
+});
+
+describe('the barcode route', () => {
+	test('sends a PNG that decodes to the serial, SVG by default, and refuses what it does not know', async () => {
+		const shop = testShop(process.env.DATABASE_URL!);
+		const [serial] = shop.receive(1);
+		const { GET } = await import('../../src/routes/api/units/[serial=serial]/barcode/+server');
+		// eslint-disable-next-line @typescript-eslint/no-explicit-any
+		const call = (s: string, q: string) => GET({ params: { serial: s }, url: new URL(`http://localhost/api/units/${s}/barcode?${q}`) } as any);
+		for (const symbology of ['code128', 'datamatrix']) {
+			const res = await call(serial, `symbology=${symbology}&format=png`);
+			expect(res.status).toBe(200);
+			expect(res.headers.get('content-type')).toBe('image/png');
+			expect(decodePng(Buffer.from(await res.arrayBuffer())).text).toBe(serial);
+		}
+		const svg = await call(serial, '');
+		expect(svg.headers.get('content-type')).toBe('image/svg+xml');
+		expect((await svg.text()).startsWith('<svg')).toBe(true);
+		expect((await call('SY-99999', '')).status).toBe(404);
+		expect((await call(serial, 'symbology=qr')).status).toBe(400);
+		expect((await call(serial, 'format=gif')).status).toBe(400);
 	});
 });

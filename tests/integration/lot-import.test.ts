@@ -7,6 +7,8 @@ import { addUnit, createLot, getLot, importManifest, listLots, lotsCsv, previewM
 import { createSupplier, DuplicateSupplierError, listSuppliers, updateSupplier } from '../../src/lib/server/suppliers';
 import { unitRecord } from '../../src/lib/server/unit-record';
 import { applyMove } from '../../src/lib/server/units';
+import { seedDemo } from '../../src/lib/server/seed';
+import { openDatabase } from '../../src/lib/server/db/index';
 
 const enc = (s: string) => new TextEncoder().encode(s);
 const MAP = { originalTag: '0', model: '1', notes: '2' };
@@ -201,4 +203,16 @@ describe('lots and suppliers', () => {
 		expect(checkAccess('/(print)/lots/[code=code]/travelers', 'GET', 'tech')).toBe('allow');
 		expect(checkAccess('/api/units/[serial=serial]/barcode', 'GET', null)).toBe('sign-in');
 	});
+});
+
+test('the demo shop’s lots read well: counts add up and the newest skid still has cores to come', async () => {
+	const db = openDatabase(':memory:');
+	const made = await seedDemo(db, { now: new Date('2026-12-01T12:00:00Z') });
+	const lots = listLots(db);
+	expect(lots).toHaveLength(made.lots);
+	expect(lots.reduce((n, l) => n + l.received, 0)).toBe(made.units);
+	for (const l of lots) expect(l.waiting + l.inWork + l.shipped + l.scrapped).toBe(l.received);
+	const newestSkid = lots.find((l) => l.source === 'purchased_skid')!;
+	expect(newestSkid.expectedCount - newestSkid.received).toBe(6);
+	expect(lots.filter((l) => l.expectedCount !== l.received)).toHaveLength(1);
 });
