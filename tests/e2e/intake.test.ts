@@ -118,3 +118,55 @@ test('a tech cannot create a lot', async ({ page }) => {
 	});
 	expect(post.status()).toBe(403);
 });
+
+test('changing a column choice runs the check again', async ({ page }) => {
+	await signIn(page, 'owner');
+	await page.goto('/lots');
+	await page.getByTestId('lot-table').locator('tbody tr').nth(1).locator('a').first().click();
+	await page.getByTestId('import-link').click();
+	await page.getByLabel(/^Manifest/).setInputFiles({ name: 'remap.csv', mimeType: 'text/csv', buffer: Buffer.from('Qty,Part,Yard tag\n1,CH-F46,NM-1\n1,CH-F52,NM-2\n', 'utf8') });
+	await page.getByTestId('read-file').click();
+	// "Part" and "Yard tag" are guessed; the model is right, so both rows are ready
+	await expect(page.getByTestId('check-summary')).toContainText('2 rows ready');
+	await expect(page.getByTestId('map-originalTag')).toHaveValue('2');
+	// one column for two fields is refused before any row is checked
+	await page.getByTestId('map-model').selectOption({ label: 'Yard tag' });
+	await expect(page.getByTestId('map-form')).toContainText('Column "Yard tag" is already used');
+	await expect(page.getByTestId('check-summary')).toHaveCount(0);
+	// the model from the wrong column: every row is an unknown model, and nothing can be imported
+	await page.getByTestId('map-originalTag').selectOption('');
+	await expect(page.getByTestId('bad-rows').locator('tbody tr')).toHaveCount(2);
+	await expect(page.getByTestId('bad-rows')).toContainText('Unknown model "NM-1".');
+	await expect(page.getByTestId('bad-rows')).toContainText('Unknown model "NM-2".');
+	await expect(page.getByTestId('confirm-import')).toHaveCount(0);
+	await page.getByTestId('map-model').selectOption({ label: 'Part' });
+	await expect(page.getByTestId('check-summary')).toContainText('2 rows ready');
+});
+
+test('the office keeps the supplier list; a lead reads it', async ({ page }) => {
+	await signIn(page, 'office');
+	await page.goto('/suppliers');
+	await page.getByLabel('Name').fill('Foxbarrow Core Yard');
+	await page.getByLabel('Notes').fill('Small lots, cash on pickup.');
+	await page.getByRole('button', { name: 'Add' }).click();
+	const row = page.getByTestId('suppliers').locator('tbody tr').filter({ hasText: 'Foxbarrow Core Yard' });
+	await expect(row).toContainText('Small lots, cash on pickup.');
+	await row.getByRole('button', { name: 'Edit' }).click();
+	const editor = page.getByTestId('suppliers').locator('form');
+	await editor.getByLabel('Notes').fill('Small lots, mixed quality.');
+	await editor.getByRole('button', { name: 'Save' }).click();
+	await expect(page.getByText('Foxbarrow Core Yard saved.')).toBeVisible();
+	await expect(page.getByTestId('suppliers').locator('tbody tr').filter({ hasText: 'Foxbarrow Core Yard' })).toContainText('Small lots, mixed quality.');
+	// a duplicate name is refused with a field error
+	await page.getByLabel('Name').fill('foxbarrow core yard');
+	await page.getByRole('button', { name: 'Add' }).click();
+	await expect(page.getByText('foxbarrow core yard is already on the list.')).toBeVisible();
+
+	await page.context().clearCookies();
+	await signIn(page, 'lead');
+	await page.goto('/suppliers');
+	await expect(page.getByTestId('suppliers')).toContainText('Foxbarrow Core Yard');
+	await expect(page.getByRole('button', { name: 'Edit' })).toHaveCount(0);
+	const post = await page.request.post('/suppliers?/create', { form: { name: 'Sneaky', notes: '' }, headers: { origin: new URL(page.url()).origin } });
+	expect(post.status()).toBe(403);
+});
