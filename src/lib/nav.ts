@@ -14,5 +14,6 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/models', label: 'Models', roles: ['owner', 'lead', 'tech'] },
 	{ href: '/orders', label: 'Orders', roles: ['owner', 'lead', 'office'] },
 	{ href: '/shipments', label: 'Shipments', roles: ['owner', 'lead', 'office', 'tech'] },
+	{ href: '/lots', label: 'Lots', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/admin/users', label: 'People', roles: ['owner'] }
 ];

@@ -53,7 +53,19 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/(app)/dev/mail': { read: OWNER },
 	'/api/dev/mail/[id=id]': { read: OWNER },
 	'/track/[token]': { read: 'public' },
-	'/api/payments/webhook': { read: 'public', methods: { POST: 'public' } }
+	'/api/payments/webhook': { read: 'public', methods: { POST: 'public' } },
+
+	// Lot intake, travelers and printed histories
+	'/(app)/lots': { read: ALL_ROLES },
+	'/(app)/lots.csv': { read: ALL_ROLES },
+	'/(app)/lots/new': { read: INTAKE_ROLES },
+	'/(app)/lots/[code=code]': { read: ALL_ROLES, write: INTAKE_ROLES },
+	'/(app)/lots/[code=code]/import': { read: INTAKE_ROLES },
+	'/(app)/suppliers': { read: ALL_ROLES, write: ['owner', 'office'] },
+	'/(print)/lots/[code=code]/travelers': { read: ALL_ROLES },
+	'/(print)/units/[serial=serial]/traveler': { read: ALL_ROLES },
+	'/(print)/units/[serial=serial]/print': { read: ALL_ROLES },
+	'/api/units/[serial=serial]/barcode': { read: ALL_ROLES }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

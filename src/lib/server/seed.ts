@@ -14,6 +14,7 @@ import type { Db } from './db';
 import { allocateSerials } from './units';
 import { demoBuildRecords } from './seed-balance';
 import { seedCustomerOrders } from './seed-customer';
+import { seedIntakeDemo } from './seed-intake';
 import { coreLot, scrapReason, station, supplier, turboModel, unit, unitEvent, user, type LotSource } from './db/schema';
 
 export const DEMO_SHOP = 'Corvid Hill Turbo Works';
@@ -258,6 +259,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 			}
 		}
 		seedCustomerOrders(tx, { now, random, shopName: DEMO_SHOP, office, tech: techs[0], stationIds, modelIds });
+		seedIntakeDemo(tx);
 		return { users: userIds.length, lots: lotCount, units, events };
 	});
 }
