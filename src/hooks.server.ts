@@ -5,6 +5,7 @@ import { appAuth } from '$lib/server/app-auth';
 import { getDb } from '$lib/server/db';
 import { sameOriginApi } from '$lib/server/same-origin';
 import { responseForThrown } from '$lib/server/hook-errors';
+import { formBodies } from '$lib/server/form-guard';
 
 /** Open the database (and run migrations) before the first request. */
 export const init = async () => {
@@ -72,4 +73,4 @@ const theme: Handle = async ({ event, resolve }) => {
 	});
 };
 
-export const handle = sequence(secureHeaders, sameOriginApi, authenticate, authorize, theme);
+export const handle = sequence(secureHeaders, sameOriginApi, authenticate, authorize, formBodies, theme);

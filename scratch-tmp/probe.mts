@@ -1,0 +1,15 @@
+import { ensureBuilt, freshDemoDb, startServer, signedIn } from '../tests/helpers/server.ts';
+await ensureBuilt();
+const { file } = await freshDemoDb();
+const s = await startServer(file, 4279);
+const c = await signedIn(s.origin, 'tech');
+const o = await signedIn(s.origin, 'owner');
+const show = (r) => console.log(r.status, r.text.slice(0, 200));
+show(await c.request('POST', '/stations/WASH?/scan', { headers: { 'content-type': 'text/plain', origin: s.origin, accept: 'application/json', 'x-sveltekit-action': 'true' }, body: 'x' }));
+show(await c.request('POST', '/stations/WASH?/scan', { headers: { 'content-type': 'multipart/form-data; boundary=x', origin: s.origin, accept: 'application/json', 'x-sveltekit-action': 'true' }, body: 'x' }));
+show(await o.request('POST', '/admin/users?/create', { headers: { 'content-type': 'multipart/form-data; boundary=x', origin: s.origin, accept: 'application/json', 'x-sveltekit-action': 'true' }, body: 'x' }));
+show(await c.postJson('/api/units/SY-00001/events', { data: { a: 'A'.repeat(70000) } }, { origin: s.origin }).catch(e => ({status: 'ERR', text: String(e)})));
+show(await c.request('POST', '/api/units/SY-00001/events', { headers: { 'content-type': 'application/json', origin: s.origin }, body: 'A'.repeat(70000) }).catch(e => ({status: 'ERR', text: String(e)})));
+show(await c.action('/stations/WASH?/scan', { serial: 'é'.repeat(40000) }));
+await s.stop();
+console.log(s.log().slice(-3000));
