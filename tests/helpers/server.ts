@@ -178,7 +178,7 @@ export class Client {
 				}
 				if (options.headOnly) {
 					res.destroy();
-					resolvePromise({ status: res.statusCode ?? 0, headers: res.headers, text: '', json: () => ({}) });
+					resolvePromise({ status: res.statusCode ?? 0, headers: res.headers, text: '', json: () => ({}) as never });
 					return;
 				}
 				const chunks: Buffer[] = [];
