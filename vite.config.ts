@@ -6,7 +6,7 @@ export default defineConfig({
 	plugins: [tailwindcss(), sveltekit()],
 	server: { host: '127.0.0.1', port: 5173 },
 	test: {
-		include: ['tests/unit/**/*.test.ts', 'tests/integration/**/*.test.ts'],
+		include: ['tests/unit/**/*.test.ts', 'tests/integration/**/*.test.ts', 'tests/server/**/*.test.ts'],
 		environment: 'node',
 		expect: { requireAssertions: true },
 		testTimeout: 20000,

@@ -5,6 +5,9 @@ import { checkAccess } from '$lib/server/access';
 import { appAuth } from '$lib/server/app-auth';
 import { getDb } from '$lib/server/db';
 import { startCustomerServices } from '$lib/server/customer-services';
+import { sameOriginApi } from '$lib/server/same-origin';
+import { responseForThrown } from '$lib/server/hook-errors';
+import { formBodies } from '$lib/server/form-guard';
 
 /** Open the database (and run migrations) before the first request. */
 export const init = async () => {
@@ -51,7 +54,12 @@ const authorize: Handle = async ({ event, resolve }) => {
 };
 
 const secureHeaders: Handle = async ({ event, resolve }) => {
-	const response = await resolve(event);
+	let response: Response;
+	try {
+		response = await resolve(event);
+	} catch (e) {
+		response = responseForThrown(e, event.request); // the access check's refusals get the headers too
+	}
 	response.headers.set('X-Content-Type-Options', 'nosniff');
 	response.headers.set('Referrer-Policy', 'same-origin');
 	response.headers.set('X-Frame-Options', 'DENY');
@@ -68,4 +76,4 @@ const theme: Handle = async ({ event, resolve }) => {
 	});
 };
 
-export const handle = sequence(secureHeaders, authenticate, authorize, theme);
+export const handle = sequence(secureHeaders, sameOriginApi, authenticate, authorize, formBodies, theme);

@@ -482,3 +482,14 @@ export type Quote = typeof quote.$inferSelect;
 export type QuoteLine = typeof quoteLine.$inferSelect;
 export type OutboxMessage = typeof outboxMessage.$inferSelect;
 export type Shipment = typeof shipment.$inferSelect;
+// ---- Sign-in throttling (src/lib/server/sign-in-throttle.ts) ----
+
+/** Failed sign-ins per key (`account:<email>` or `address:<ip>`); survives restarts. */
+export const signInThrottle = sqliteTable('sign_in_throttle', {
+	key: text('key').primaryKey(),
+	failures: integer('failures').notNull().default(0),
+	windowStart: integer('window_start').notNull(),
+	lockedUntil: integer('locked_until').notNull().default(0),
+	locks: integer('locks').notNull().default(0),
+	consecutive: integer('consecutive').notNull().default(0)
+});

@@ -1,0 +1,76 @@
+/**
+ * Repeated failed sign-ins: count them per account and per client address inside a window,
+ * lock the key for a while once the count reaches the threshold, and double the lock each
+ * time it is reached again (capped), so a guesser gets a handful of tries per lock period.
+ *
+ * The three settings are the ones the OWASP Authentication Cheat Sheet names for account
+ * lockout (threshold, observation window, lockout duration); the values are common practice.
+ * NIST SP 800-63B §5.2.2 requires that consecutive failures on one account be limited to no
+ * more than 100: past `maxConsecutive` failures without a success, every further failure locks
+ * the key for the longest lock.
+ */
+
+export interface LockoutPolicy {
+	/** Failures within the window that lock the key. */
+	maxFailures: number;
+	windowMs: number;
+	/** The first lock; each further lock doubles it, up to maxLockMs. */
+	lockMs: number;
+	maxLockMs: number;
+	/** Failures in a row (without a success, across windows) after which every failure locks for maxLockMs. */
+	maxConsecutive: number;
+}
+
+const MINUTE = 60_000;
+
+/** Per e-mail address tried (known or not, so that a lock says nothing about who has an account). */
+export const ACCOUNT_POLICY: LockoutPolicy = { maxFailures: 5, windowMs: 15 * MINUTE, lockMs: 15 * MINUTE, maxLockMs: 24 * 60 * MINUTE, maxConsecutive: 100 };
+/** Per client address: a shop shares one address behind its router, so the threshold is higher. */
+export const ADDRESS_POLICY: LockoutPolicy = { maxFailures: 20, windowMs: 15 * MINUTE, lockMs: 15 * MINUTE, maxLockMs: 24 * 60 * MINUTE, maxConsecutive: 400 };
+
+export interface ThrottleState {
+	failures: number;
+	/** When the current counting window began (ms since the epoch). */
+	windowStart: number;
+	/** 0 when not locked. */
+	lockedUntil: number;
+	/** How many times the key has been locked since its last success. */
+	locks: number;
+	/** Failures since the last success. */
+	consecutive: number;
+}
+
+export type LockVerdict = { locked: false } | { locked: true; retryAfterMs: number };
+
+export function lockVerdict(state: ThrottleState | null | undefined, now: number): LockVerdict {
+	if (!state || state.lockedUntil <= now) return { locked: false };
+	return { locked: true, retryAfterMs: state.lockedUntil - now };
+}
+
+export function lockDuration(policy: LockoutPolicy, lockNumber: number): number {
+	return Math.min(policy.maxLockMs, policy.lockMs * 2 ** Math.max(0, lockNumber - 1));
+}
+
+/** The state after one more failure at `now`. */
+export function afterFailure(state: ThrottleState | null | undefined, now: number, policy: LockoutPolicy): ThrottleState {
+	const locks = state?.locks ?? 0;
+	const consecutive = (state?.consecutive ?? 0) + 1;
+	const inWindow = state && now - state.windowStart < policy.windowMs && state.lockedUntil <= now;
+	const failures = inWindow ? state.failures + 1 : 1;
+	const windowStart = inWindow ? state.windowStart : now;
+	if (consecutive >= policy.maxConsecutive) {
+		return { failures: 0, windowStart: now, lockedUntil: now + policy.maxLockMs, locks: locks + 1, consecutive };
+	}
+	if (failures >= policy.maxFailures) {
+		const n = locks + 1;
+		return { failures: 0, windowStart: now, lockedUntil: now + lockDuration(policy, n), locks: n, consecutive };
+	}
+	return { failures, windowStart, lockedUntil: 0, locks, consecutive };
+}
+
+/** A sentence for the sign-in form. */
+export function lockMessage(retryAfterMs: number): string {
+	const minutes = Math.max(1, Math.ceil(retryAfterMs / MINUTE));
+	const when = minutes >= 120 ? `${Math.ceil(minutes / 60)} hours` : minutes === 1 ? '1 minute' : `${minutes} minutes`;
+	return `Too many failed sign-ins. Wait ${when} and try again, or ask the owner.`;
+}

@@ -1,0 +1,119 @@
+/**
+ * What every person should get from every route: THE place to add a route's expectations.
+ *
+ * One entry per route id in `src/routes`, keyed exactly as `ROUTE_ACCESS` is. Each entry says
+ * how to build a real path from the fixtures and lists checks: a method (and form action) with
+ * the answer each kind of visitor must get. `tests/server/access-matrix.test.ts` runs every
+ * check against the built server with real sign-ins, and fails when a route, an exported
+ * method or a form action has no check here.
+ *
+ * Visitors: the four roles signed in, `anon` (no session) and `customer` (no session, but
+ * holding a valid customer tracking token: `path(f, 'customer')` may put `f.token` in the
+ * path; everywhere else a customer is just a visitor without a session).
+ */
+import type { Role } from '../../src/lib/domain/auth/roles';
+
+export type Who = Role | 'anon' | 'customer';
+export const VISITORS: readonly Who[] = ['owner', 'lead', 'tech', 'office', 'anon', 'customer'];
+
+/**
+ * ok        200
+ * pass      got through the access check: not 401/403, not sent to sign in, not 5xx
+ *           (mutations are sent with an empty body, so a 400 from validation is a pass)
+ * redirect  3xx somewhere other than the sign-in page
+ * login     pages: 303 to /login?next=…; API calls and page posts: 401
+ * forbidden 403
+ * missing   404
+ */
+export type Answer = 'ok' | 'pass' | 'redirect' | 'login' | 'forbidden' | 'missing';
+
+export interface Fixtures {
+	/** A unit that exists, a station code that exists. */
+	serial: string;
+	stationCode: string;
+	/** A valid customer tracking token, once customers can track their units. */
+	token?: string;
+}
+
+export interface Check {
+	method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+	/** A form action name (`default` for the unnamed one); posted as a browser without script posts it. */
+	action?: string;
+	/** Body for API mutations (JSON); forms are sent empty. Defaults to `{}`. */
+	json?: unknown;
+	/** A streaming answer: read only the status and headers. */
+	stream?: boolean;
+	/** The request ends the session (sign out): use a session of its own. */
+	endsSession?: boolean;
+	answers: Record<Who, Answer>;
+}
+
+export interface RouteExpectation {
+	path(f: Fixtures, who: Who): string;
+	checks: Check[];
+}
+
+const ROLES_ONLY: readonly Role[] = ['owner', 'lead', 'tech', 'office'];
+
+/** Signed-in people in `allowed` get `yes`, other roles 403, visitors without a session are sent to sign in. */
+export function only(allowed: readonly Role[], yes: Answer = 'ok'): Record<Who, Answer> {
+	const out = { anon: 'login', customer: 'login' } as Record<Who, Answer>;
+	for (const r of ROLES_ONLY) out[r] = allowed.includes(r) ? yes : 'forbidden';
+	return out;
+}
+
+/** Everyone, signed in or not, gets the same answer. */
+export function everyone(answer: Answer): Record<Who, Answer> {
+	return Object.fromEntries(VISITORS.map((w) => [w, answer])) as Record<Who, Answer>;
+}
+
+const ALL = ROLES_ONLY;
+const FLOOR: readonly Role[] = ['owner', 'lead', 'tech'];
+const OWNER: readonly Role[] = ['owner'];
+
+export const EXPECTED: Record<string, RouteExpectation> = {
+	'/login': {
+		path: () => '/login',
+		checks: [
+			// signed-in people are sent on to their home page
+			{ method: 'GET', answers: { ...only(ALL, 'redirect'), anon: 'ok', customer: 'ok' } },
+			{ method: 'POST', action: 'default', answers: everyone('pass') }
+		]
+	},
+	'/logout': {
+		path: () => '/logout',
+		checks: [{ method: 'POST', endsSession: true, answers: only(ALL, 'redirect') }]
+	},
+	'/api/health': { path: () => '/api/health', checks: [{ method: 'GET', answers: everyone('ok') }] },
+
+	'/(app)': { path: () => '/', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/units': { path: () => '/units', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/units/[serial=serial]': { path: (f) => `/units/${f.serial}`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/stations': { path: () => '/stations', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/stations/[code=code]': {
+		path: (f) => `/stations/${f.stationCode}`,
+		checks: [
+			{ method: 'GET', answers: only(ALL) },
+			{ method: 'POST', action: 'scan', answers: only(FLOOR, 'pass') },
+			{ method: 'POST', action: 'move', answers: only(FLOOR, 'pass') }
+		]
+	},
+	'/(app)/admin/users': {
+		path: () => '/admin/users',
+		checks: [
+			{ method: 'GET', answers: only(OWNER) },
+			{ method: 'POST', action: 'create', answers: only(OWNER, 'pass') },
+			{ method: 'POST', action: 'role', answers: only(OWNER, 'pass') },
+			{ method: 'POST', action: 'active', answers: only(OWNER, 'pass') }
+		]
+	},
+
+	'/api/units': { path: () => '/api/units', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/api/units/[serial=serial]': { path: (f) => `/api/units/${f.serial}`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/api/units/[serial=serial]/events': {
+		path: (f) => `/api/units/${f.serial}/events`,
+		checks: [{ method: 'POST', json: {}, answers: only(FLOOR, 'pass') }]
+	},
+	'/api/stations': { path: () => '/api/stations', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/api/stream': { path: () => '/api/stream', checks: [{ method: 'GET', stream: true, answers: only(ALL) }] }
+};

@@ -1,0 +1,121 @@
+/**
+ * Every route × every visitor, against the built server over HTTP with real sign-ins.
+ * The expectations live in tests/access/matrix.ts; the routes are read from src/routes.
+ */
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import { EXPECTED, VISITORS, type Answer, type Check, type Fixtures, type Who } from '../access/matrix';
+import { routeFiles } from '../access/routes';
+import { ROUTE_ACCESS } from '../../src/lib/server/access';
+import { Client, cleanup, DEMO_PEOPLE, ensureBuilt, freshDemoDb, signedIn, startServer, type Reply, type RunningServer } from '../helpers/server';
+
+const PORT = 4260;
+const ROUTES = routeFiles();
+
+describe('the matrix covers every route', () => {
+	test('every route file has an entry, every entry a route', () => {
+		const ids = ROUTES.map((r) => r.id);
+		expect(ids.filter((id) => !(id in EXPECTED)), 'routes without expectations in tests/access/matrix.ts').toEqual([]);
+		expect(Object.keys(EXPECTED).filter((id) => !ids.includes(id)), 'expectations for routes that do not exist').toEqual([]);
+		expect(Object.keys(ROUTE_ACCESS).sort(), 'the matrix and ROUTE_ACCESS name the same routes').toEqual(Object.keys(EXPECTED).sort());
+	});
+
+	test('every exported method and form action has a check; every page a GET', () => {
+		const gaps: string[] = [];
+		for (const r of ROUTES) {
+			const checks = EXPECTED[r.id]?.checks ?? [];
+			if (r.isPage && !checks.some((c) => c.method === 'GET' && !c.action)) gaps.push(`${r.id} GET`);
+			for (const m of r.methods) if (!checks.some((c) => c.method === m && !c.action)) gaps.push(`${r.id} ${m}`);
+			for (const a of r.actions) if (!checks.some((c) => c.action === a)) gaps.push(`${r.id} ?/${a}`);
+			for (const c of checks) {
+				if (c.action && !r.actions.includes(c.action)) gaps.push(`${r.id} ?/${c.action} is checked but not declared`);
+				if (!c.action && !r.isPage && !r.methods.includes(c.method)) gaps.push(`${r.id} ${c.method} is checked but not exported`);
+			}
+		}
+		expect(gaps).toEqual([]);
+	});
+});
+
+describe('routes × visitors on the built server', () => {
+	let server: RunningServer;
+	let dir: string;
+	let fixtures: Fixtures;
+	const clients = new Map<Who, Client>();
+
+	beforeAll(async () => {
+		await ensureBuilt();
+		const db = await freshDemoDb();
+		dir = db.dir;
+		const conn = new Database(db.file, { readonly: true });
+		const u = conn.prepare(`select serial from unit order by id limit 1`).get() as { serial: string };
+		const s = conn.prepare(`select code from station where code = 'WASH'`).get() as { code: string };
+		conn.close();
+		// A customer tracking token fixture goes here once customers can track units.
+		fixtures = { serial: u.serial, stationCode: s.code };
+		server = await startServer(db.file, PORT);
+		for (const who of ['owner', 'lead', 'tech', 'office'] as const) clients.set(who, await signedIn(server.origin, who));
+		clients.set('anon', new Client(server.origin));
+		clients.set('customer', new Client(server.origin));
+	}, 240_000);
+
+	afterAll(async () => {
+		for (const c of clients.values()) c.close();
+		await server?.stop();
+		if (dir) cleanup(dir);
+	});
+
+	async function send(client: Client, path: string, check: Check): Promise<Reply> {
+		if (check.action) {
+			const url = check.action === 'default' ? path : `${path}?/${check.action}`;
+			return client.postForm(url, {});
+		}
+		if (check.method === 'GET') return client.get(path, { headOnly: check.stream });
+		return client.request(check.method, path, {
+			headers: { 'content-type': 'application/json', origin: client.origin },
+			body: JSON.stringify(check.json ?? {})
+		});
+	}
+
+	function verdict(r: Reply, isApi: boolean, check: Check): Answer | string {
+		const loc = String(r.headers.location ?? '');
+		if (r.status >= 500) return `server error ${r.status}`;
+		if (r.status === 401) return 'login';
+		if (r.status === 303 && loc.startsWith('/login?next=')) return 'login';
+		if (r.status === 403) return 'forbidden';
+		if (r.status >= 300 && r.status < 400 && (check.method === 'GET' || check.endsSession)) return 'redirect';
+		if (check.method !== 'GET') return 'pass'; // through the gate: the handler answered (400, 404, 2xx, 3xx)
+		if (r.status === 404) return 'missing';
+		if (r.status === 200 && check.method === 'GET') return 'ok';
+		return isApi && check.method === 'GET' ? `status ${r.status}` : 'pass';
+	}
+
+	const rows = Object.entries(EXPECTED).flatMap(([id, e]) => e.checks.map((check) => ({ id, e, check })));
+	let checked = 0;
+
+	test.each(rows.map((r) => [`${r.check.method}${r.check.action ? ` ?/${r.check.action}` : ''} ${r.id}`, r] as const))('%s', async (_name, { id, e, check }) => {
+		const got: Partial<Record<Who, string>> = {};
+		for (const who of VISITORS) {
+			let client = clients.get(who)!;
+			let own: Client | undefined;
+			if (check.endsSession && who !== 'anon' && who !== 'customer') {
+				own = await signedIn(server.origin, who as keyof typeof DEMO_PEOPLE);
+				client = own;
+			}
+			const r = await send(client, e.path(fixtures, who), check);
+			let v = verdict(r, id.startsWith('/api/'), check);
+			// 'pass' covers ok and a redirect after a mutation
+			if (check.answers[who] === 'pass' && v === 'ok') v = 'pass';
+			got[who] = v;
+			own?.close();
+			checked++;
+		}
+		expect(got).toEqual(check.answers);
+	});
+
+	test('the signed-in sessions were not disturbed by the matrix', async () => {
+		for (const who of ['owner', 'lead', 'tech', 'office'] as const) {
+			expect((await clients.get(who)!.get('/api/stations')).status, who).toBe(200);
+		}
+		console.log(`access matrix: ${rows.length} checks × ${VISITORS.length} visitors = ${checked} requests`);
+	});
+});
