@@ -31,6 +31,9 @@ export interface Fixtures {
 	/** A unit that exists, a station code that exists. */
 	serial: string;
 	stationCode: string;
+	/** A lot and a model that exist. */
+	lotCode: string;
+	modelCode: string;
 	/** A valid customer tracking token, once customers can track their units. */
 	token?: string;
 }
@@ -70,6 +73,10 @@ export function everyone(answer: Answer): Record<Who, Answer> {
 const ALL = ROLES_ONLY;
 const FLOOR: readonly Role[] = ['owner', 'lead', 'tech'];
 const OWNER: readonly Role[] = ['owner'];
+const INTAKE: readonly Role[] = ['office', 'lead', 'owner'];
+const STEERING: readonly Role[] = ['lead', 'owner'];
+const forms = (roles: readonly Role[], ...names: string[]): Check[] =>
+	names.map((action) => ({ method: 'POST', action, answers: only(roles, 'pass') }));
 
 export const EXPECTED: Record<string, RouteExpectation> = {
 	'/login': {
@@ -115,5 +122,72 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 		checks: [{ method: 'POST', json: {}, answers: only(FLOOR, 'pass') }]
 	},
 	'/api/stations': { path: () => '/api/stations', checks: [{ method: 'GET', answers: only(ALL) }] },
-	'/api/stream': { path: () => '/api/stream', checks: [{ method: 'GET', stream: true, answers: only(ALL) }] }
+	'/api/stream': { path: () => '/api/stream', checks: [{ method: 'GET', stream: true, answers: only(ALL) }] },
+
+	// Balancing, assembly and model specs
+	'/(app)/models': { path: () => '/models', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/models/[code=code]': {
+		path: (f) => `/models/${f.modelCode}`,
+		checks: [{ method: 'GET', answers: only(ALL) }, ...forms(OWNER, 'save')]
+	},
+	'/(app)/units/[serial=serial]/balance': {
+		path: (f) => `/units/${f.serial}/balance`,
+		checks: [{ method: 'GET', answers: only(ALL) }, ...forms(FLOOR, 'record', 'balanced')]
+	},
+	'/(app)/units/[serial=serial]/assembly': {
+		path: (f) => `/units/${f.serial}/assembly`,
+		checks: [{ method: 'GET', answers: only(ALL) }, ...forms(FLOOR, 'record', 'assembled')]
+	},
+	'/api/units/[serial=serial]/balance-runs': {
+		path: (f) => `/api/units/${f.serial}/balance-runs`,
+		checks: [
+			{ method: 'GET', answers: only(ALL) },
+			{ method: 'POST', json: {}, answers: only(FLOOR, 'pass') }
+		]
+	},
+	'/api/units/[serial=serial]/assembly': {
+		path: (f) => `/api/units/${f.serial}/assembly`,
+		checks: [
+			{ method: 'GET', answers: only(ALL) },
+			{ method: 'POST', json: {}, answers: only(FLOOR, 'pass') }
+		]
+	},
+
+	// Customers' units, quotes, shipments, the status link, payments, the test mailbox
+	'/(app)/orders': { path: () => '/orders', checks: [{ method: 'GET', answers: only(INTAKE) }, ...forms(INTAKE, 'create'), ...forms(OWNER, 'settings')] },
+	'/(app)/orders/[id=id]': {
+		path: () => '/orders/999999',
+		checks: [
+			{ method: 'GET', answers: only(INTAKE, 'missing') },
+			...forms(INTAKE, 'addLine', 'removeLine', 'setCore', 'sendQuote', 'withdrawQuote', 'resendLink', 'revokeLink', 'scrapDeclined')
+		]
+	},
+	'/(app)/shipments': { path: () => '/shipments', checks: [{ method: 'GET', answers: only(ALL) }, ...forms(STEERING, 'create')] },
+	'/(app)/shipments/[id=id]': { path: () => '/shipments/999999', checks: [{ method: 'GET', answers: only(ALL, 'missing') }] },
+	'/(app)/shipments/[id=id]/slip': { path: () => '/shipments/999999/slip', checks: [{ method: 'GET', answers: only(ALL, 'missing') }] },
+	'/(app)/dev/mail': { path: () => '/dev/mail', checks: [{ method: 'GET', answers: only(OWNER, 'pass') }] },
+	'/api/dev/mail/[id=id]': { path: () => '/api/dev/mail/999999', checks: [{ method: 'GET', answers: only(OWNER, 'missing') }] },
+	'/track/[token]': {
+		path: () => '/track/not-a-valid-token-at-all',
+		checks: [
+			{ method: 'GET', answers: everyone('missing') },
+			...['approve', 'decline', 'pay', 'prefs'].map((action): Check => ({ method: 'POST', action, answers: everyone('pass') }))
+		]
+	},
+	'/api/payments/webhook': { path: () => '/api/payments/webhook', checks: [{ method: 'POST', json: {}, answers: everyone('pass') }] },
+
+	// Lot intake, travelers and printed histories
+	'/(app)/lots': { path: () => '/lots', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/lots.csv': { path: () => '/lots.csv', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/lots/new': { path: () => '/lots/new', checks: [{ method: 'GET', answers: only(INTAKE) }, ...forms(INTAKE, 'default')] },
+	'/(app)/lots/[code=code]': { path: (f) => `/lots/${f.lotCode}`, checks: [{ method: 'GET', answers: only(ALL) }, ...forms(INTAKE, 'add')] },
+	'/(app)/lots/[code=code]/import': {
+		path: (f) => `/lots/${f.lotCode}/import`,
+		checks: [{ method: 'GET', answers: only(INTAKE) }, ...forms(INTAKE, 'preview', 'import')]
+	},
+	'/(app)/suppliers': { path: () => '/suppliers', checks: [{ method: 'GET', answers: only(ALL) }, ...forms(['owner', 'office'], 'create', 'update')] },
+	'/(print)/lots/[code=code]/travelers': { path: (f) => `/lots/${f.lotCode}/travelers`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(print)/units/[serial=serial]/traveler': { path: (f) => `/units/${f.serial}/traveler`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(print)/units/[serial=serial]/print': { path: (f) => `/units/${f.serial}/print`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/api/units/[serial=serial]/barcode': { path: (f) => `/api/units/${f.serial}/barcode`, checks: [{ method: 'GET', answers: only(ALL) }] }
 };

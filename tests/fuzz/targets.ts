@@ -18,6 +18,9 @@ export interface FuzzFixtures {
 	victimId: string;
 	ownerId: string;
 	emails: string[];
+	lotCodes: string[];
+	modelCodes: string[];
+	orderIds: number[];
 }
 
 export interface FuzzRequest {
@@ -251,6 +254,71 @@ export const FUZZ_TARGETS: FuzzTarget[] = [
 		}
 	}
 ];
+
+/**
+ * A form action fuzzed with its own field names carrying plausible-or-hostile values, plus stray
+ * fields and bodies no form would send. One line per action below.
+ */
+function formTarget(route: string, action: string, as: Who, path: (f: FuzzFixtures) => string, names: string[], weight = 0.5): FuzzTarget {
+	return {
+		route,
+		action,
+		as,
+		weight,
+		request: (f) => {
+			const plausible = fc.constantFrom(...f.serials, ...f.stationCodes, '1', '0', '12.5', 'true', 'CH-F46', '2026-11-30');
+			const rec = Object.fromEntries(names.map((n) => [n, field(plausible)]));
+			const url = `${path(f)}${action === 'default' ? '' : `?/${action}`}`;
+			return formOr(fc.constant(url), formFields(fc.record(rec)));
+		}
+	};
+}
+
+/** A JSON API mutation fuzzed with hostile bodies. */
+function jsonTarget(route: string, as: Who, path: (f: FuzzFixtures) => string, names: string[], weight = 0.5): FuzzTarget {
+	return {
+		route,
+		method: 'POST',
+		as,
+		weight,
+		request: (f) => {
+			const body = fc.oneof(
+				{ weight: 4, arbitrary: fc.record(Object.fromEntries(names.map((n) => [n, hostileValue])), { requiredKeys: [] }).map((r) => JSON.stringify(r)) },
+				{ weight: 1, arbitrary: fc.jsonValue().map((v) => JSON.stringify(v)) },
+				{ weight: 1, arbitrary: hostileString }
+			);
+			const contentType = fc.constantFrom('application/json', 'application/json', 'text/plain', '');
+			return fc.tuple(body, contentType).map(([b, ct]): FuzzRequest => ({ path: path(f), kind: 'raw', body: b, contentType: ct }));
+		}
+	};
+}
+
+const unitPath = (tail: string) => (f: FuzzFixtures) => `/units/${f.serials[0]}/${tail}`;
+const lotPath = (tail = '') => (f: FuzzFixtures) => `/lots/${f.lotCodes[0]}${tail}`;
+
+FUZZ_TARGETS.push(
+	formTarget('/(app)/models/[code=code]', 'save', 'owner', (f) => `/models/${f.modelCodes[0]}`, ['rotorMassKg', 'maxServiceRpm', 'gradeG', 'tighteningFactor', 'bearingCompMm', 'bearingTurbMm']),
+	formTarget('/(app)/units/[serial=serial]/balance', 'record', 'tech', unitPath('balance'), ['kind', 'aAmount', 'aAngle', 'bAmount', 'bAngle', 'compressorWheelSerial', 'shaftWheelSerial']),
+	formTarget('/(app)/units/[serial=serial]/balance', 'balanced', 'tech', unitPath('balance'), ['idempotencyKey', 'stationCode']),
+	formTarget('/(app)/units/[serial=serial]/assembly', 'record', 'tech', unitPath('assembly'), ['endPlayMm', 'radialPlayMm', 'bearingKitLot', 'sealKitLot', 'wastegatePresetKpa', 'deviationReason']),
+	formTarget('/(app)/units/[serial=serial]/assembly', 'assembled', 'tech', unitPath('assembly'), ['idempotencyKey', 'stationCode']),
+	jsonTarget('/api/units/[serial=serial]/balance-runs', 'tech', (f) => `/api/units/${f.serials[0]}/balance-runs`, ['kind', 'readings', 'trial', 'components']),
+	jsonTarget('/api/units/[serial=serial]/assembly', 'tech', (f) => `/api/units/${f.serials[0]}/assembly`, ['endPlayMm', 'radialPlayMm', 'bearingKitLot', 'sealKitLot']),
+	formTarget('/(app)/orders', 'create', 'office', () => '/orders', ['name', 'email', 'phone', 'address', 'tag', 'modelCode', 'complaint', 'promisedOn']),
+	formTarget('/(app)/orders', 'settings', 'owner', () => '/orders', ['taxRatePct']),
+	...['addLine', 'removeLine', 'setCore', 'sendQuote', 'withdrawQuote', 'resendLink', 'revokeLink', 'scrapDeclined'].map((a) =>
+		formTarget('/(app)/orders/[id=id]', a, 'office', (f) => `/orders/${f.orderIds[0] ?? 999999}`, ['kind', 'description', 'quantity', 'unitPriceCents', 'lineId', 'amountCents'], 0.25)
+	),
+	formTarget('/(app)/shipments', 'create', 'lead', () => '/shipments', ['destination', 'carrier', 'trackingNumber', 'serials']),
+	...['approve', 'decline', 'pay', 'prefs'].map((a) => formTarget('/track/[token]', a, 'anon', () => '/track/not-a-valid-token-at-all', ['choice', 'received', 'shipped'], 0.25)),
+	jsonTarget('/api/payments/webhook', 'anon', () => '/api/payments/webhook', ['id', 'type', 'data']),
+	formTarget('/(app)/lots/new', 'default', 'office', () => '/lots/new', ['supplierId', 'source', 'receivedOn', 'costPerCore', 'expectedCount', 'notes']),
+	formTarget('/(app)/lots/[code=code]', 'add', 'office', lotPath(), ['model', 'originalTag', 'notes']),
+	formTarget('/(app)/lots/[code=code]/import', 'preview', 'office', lotPath('/import'), ['csv', 'tagColumn', 'modelColumn', 'notesColumn']),
+	formTarget('/(app)/lots/[code=code]/import', 'import', 'office', lotPath('/import'), ['csv', 'tagColumn', 'modelColumn', 'notesColumn', 'token']),
+	formTarget('/(app)/suppliers', 'create', 'owner', () => '/suppliers', ['name', 'notes']),
+	formTarget('/(app)/suppliers', 'update', 'owner', () => '/suppliers', ['id', 'name', 'notes', 'active'])
+);
 
 /** Mutating routes left out of the fuzzing, each with the reason. */
 export const NOT_FUZZED: Record<string, string> = {

@@ -49,9 +49,11 @@ describe('routes × visitors on the built server', () => {
 		const conn = new Database(db.file, { readonly: true });
 		const u = conn.prepare(`select serial from unit order by id limit 1`).get() as { serial: string };
 		const s = conn.prepare(`select code from station where code = 'WASH'`).get() as { code: string };
+		const lot = conn.prepare(`select code from core_lot order by id limit 1`).get() as { code: string };
+		const model = conn.prepare(`select code from turbo_model order by id limit 1`).get() as { code: string };
 		conn.close();
 		// A customer tracking token fixture goes here once customers can track units.
-		fixtures = { serial: u.serial, stationCode: s.code };
+		fixtures = { serial: u.serial, stationCode: s.code, lotCode: lot.code, modelCode: model.code };
 		server = await startServer(db.file, PORT);
 		for (const who of ['owner', 'lead', 'tech', 'office'] as const) clients.set(who, await signedIn(server.origin, who));
 		clients.set('anon', new Client(server.origin));

@@ -60,7 +60,10 @@ describe('fuzzing the built server', () => {
 			scrapReasons: pluck(`select code from scrap_reason`),
 			victimId: pluck(`select id from user where email = 'fenna@corvidhill.example'`)[0],
 			ownerId: pluck(`select id from user where email = '${DEMO_PEOPLE.owner.email}'`)[0],
-			emails: [...Object.values(DEMO_PEOPLE).map((p) => p.email), 'fenna@corvidhill.example', 'nobody@corvidhill.example']
+			emails: [...Object.values(DEMO_PEOPLE).map((p) => p.email), 'fenna@corvidhill.example', 'nobody@corvidhill.example'],
+			lotCodes: pluck(`select code from core_lot order by id`),
+			modelCodes: pluck(`select code from turbo_model order by id`),
+			orderIds: (conn.prepare(`select id from rebuild_order order by id`).pluck().all() as number[])
 		};
 		conn.close();
 	}, 240_000);

@@ -77,7 +77,7 @@ function expectOnlyAllowedScripts(r: Reply, what: string) {
 
 describe('headers on real responses', () => {
 	test('every page the owner can open: CSP with a fresh nonce, nosniff, referrer policy, no framing', async () => {
-		const f = { serial: 'SY-00001', stationCode: 'WASH' };
+		const f = { serial: 'SY-00001', stationCode: 'WASH', lotCode: 'L260922-01', modelCode: 'CH-F46' };
 		const pages = Object.entries(EXPECTED)
 			.filter(([id, e]) => !id.startsWith('/api/') && e.checks.some((c) => c.method === 'GET' && c.answers.owner === 'ok'))
 			.map(([, e]) => e.path(f, 'owner'));

@@ -26,8 +26,10 @@ type Handler = (ctx: { id: number; data: FormData; role: string; userId: string 
 function act(handler: Handler, roles: readonly string[] = INTAKE_ROLES) {
 	return async ({ params, request, locals }: { params: { id: string }; request: Request; locals: App.Locals }) => {
 		if (!roles.includes(locals.user!.role)) return fail(403, { message: `Your role (${locals.user!.role}) may not do this here.` });
+		const id = Number(params.id);
+		if (!Number.isSafeInteger(id) || !orderDetail(getDb(), id)) return fail(404, { message: 'No such rebuild order.' });
 		try {
-			const out = await handler({ id: Number(params.id), data: await request.formData(), role: locals.user!.role, userId: locals.user!.id });
+			const out = await handler({ id, data: await request.formData(), role: locals.user!.role, userId: locals.user!.id });
 			return out ?? { ok: true };
 		} catch (e) {
 			if (e instanceof QuoteError || e instanceof OrderError) return fail(400, { message: e.message });
