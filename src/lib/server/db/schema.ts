@@ -7,6 +7,8 @@ import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-or
 import { ROLES } from '../../domain/auth/roles';
 import { STAGES, UNIT_STATES } from '../../domain/units/states';
 import { ACTIONS } from '../../domain/units/actions';
+import { CARD_STYLE_KEYS } from '../../domain/cards/card-style';
+import { ORDER_CHANNELS, ORDER_STATUSES } from '../../domain/orders/channels';
 
 const createdAt = () =>
 	integer('created_at', { mode: 'timestamp_ms' })
@@ -175,7 +177,6 @@ export const counter = sqliteTable('counter', {
 // The lead's board: priority cards, orders and demand, build-plan settings.
 // ---------------------------------------------------------------------------
 
-export const CARD_STYLE_KEYS = ['rush', 'customer', 'restock', 'finish', 'kit', 'plain'] as const;
 export const CARD_KINDS = ['units', 'rule'] as const;
 
 /** A priority card: orders every station's queue by its rank. Either a set of units or a rule. */
@@ -239,8 +240,6 @@ export const priorityCardChange = sqliteTable(
 	(t) => [index('priority_card_change_card_idx').on(t.cardId, t.at)]
 );
 
-export const ORDER_CHANNELS = ['north', 'lakes', 'plains', 'coast', 'web', 'walk_in'] as const;
-export const ORDER_STATUSES = ['open', 'fulfilled', 'cancelled'] as const;
 
 /** A customer order: a channel, a due date and lines of model × quantity. */
 export const customerOrder = sqliteTable(
