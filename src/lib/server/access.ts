@@ -4,7 +4,7 @@
  * (load and form actions alike); API routes per HTTP method.
  */
 import type { Role } from '../domain/auth/roles';
-import { ALL_ROLES, FLOOR_ROLES } from '../domain/auth/roles';
+import { ALL_ROLES, FLOOR_ROLES, INTAKE_ROLES, STEERING_ROLES } from '../domain/auth/roles';
 
 export type Audience = readonly Role[] | 'public';
 type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -36,7 +36,16 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/units/[serial=serial]': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/events': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/stations': { read: ALL_ROLES },
-	'/api/stream': { read: ALL_ROLES }
+	'/api/stream': { read: ALL_ROLES },
+
+	// The lead's board: cards order the floor; orders, stock and the build plan.
+	'/(app)/cards': { read: ALL_ROLES, write: STEERING_ROLES },
+	'/api/cards': { read: ALL_ROLES },
+	'/api/cards/order': { read: ALL_ROLES, methods: { PUT: STEERING_ROLES } },
+	'/(app)/orders': { read: ALL_ROLES, write: INTAKE_ROLES },
+	'/(app)/orders/import': { read: INTAKE_ROLES, write: INTAKE_ROLES },
+	'/(app)/stock': { read: ALL_ROLES },
+	'/(app)/plan': { read: STEERING_ROLES, write: STEERING_ROLES }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
