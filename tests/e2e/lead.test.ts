@@ -143,3 +143,43 @@ test('the office imports an order file: bad rows are listed and nothing is impor
 	await expect(page.getByTestId('orders')).toContainText('E2E-1');
 	await expect(page.getByTestId('orders')).toContainText('Lakes Depot');
 });
+
+test('two people edit one card: the stale save gets the conflict and the current card, nothing is overwritten', async ({ browser }) => {
+	const a = await (await browser.newContext()).newPage();
+	const b = await (await browser.newContext()).newPage();
+	await signIn(a, 'owner');
+	await signIn(b, 'lead');
+	for (const p of [a, b]) {
+		await p.goto('/cards');
+		await hydrated(p);
+		await board(p).getByTestId('card-item').filter({ hasText: 'Finish the older skid' }).getByRole('button', { name: 'Edit' }).click();
+	}
+	await a.getByLabel('Title').fill('Finish the older skid first — both lathes');
+	await a.getByTestId('card-save').click();
+	await expect(a.getByTestId('card-feedback')).toContainText('Saved “Finish the older skid first — both lathes”.');
+
+	await b.getByLabel('Title').fill('Older skid: no hurry');
+	await b.getByTestId('card-save').click();
+	const conflict = b.getByTestId('conflict');
+	await expect(conflict).toContainText('Ines Varga changed “Finish the older skid first — both lathes”');
+	await expect(conflict).toContainText('Nothing of yours was saved');
+	await expect(b.getByLabel('Title')).toHaveValue('Finish the older skid first — both lathes');
+	await expect(titles(b).filter({ hasText: 'Older skid: no hurry' })).toHaveCount(0);
+
+	// saving again from the current state goes through
+	await b.getByLabel('Due date').fill('2099-01-31');
+	await b.getByTestId('card-save').click();
+	await expect(b.getByTestId('card-feedback')).toContainText('Saved “Finish the older skid first — both lathes”.');
+	await expect(board(b).getByTestId('card-item').filter({ hasText: 'both lathes' })).toContainText('due 2099-01-31');
+});
+
+test('the build plan turns a suggestion into a card', async ({ page }) => {
+	await signIn(page, 'lead');
+	await page.goto('/plan');
+	const row = page.getByTestId('plan').locator('tbody tr').filter({ has: page.getByRole('button', { name: 'Make a card' }) }).first();
+	const model = await row.getAttribute('data-model');
+	await row.getByRole('button', { name: 'Make a card' }).click();
+	await expect(page.getByTestId('plan-done')).toContainText(`× ${model} this week`);
+	await page.goto('/cards');
+	await expect(titles(page).last()).toContainText(`× ${model} this week`);
+});

@@ -2,16 +2,16 @@
  * Demo rows for the lead's board: priority cards and about twelve weeks of orders from the
  * depots, the web shop and walk-ins. Invented; deterministic from the demo's random source.
  */
-import { and, asc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Tx } from './db';
 import { addDays, pastWeeks, weekStart } from '../domain/plan/weeks';
 import { ORDER_CHANNELS, type OrderChannel } from '../domain/orders/channels';
-import { coreLot, customerOrder, orderLine, priorityCard, priorityCardChange, priorityCardUnit, turboModel, unit } from './db/schema';
+import { customerOrder, orderLine, priorityCard, priorityCardChange, priorityCardUnit, turboModel, unit } from './db/schema';
 
 const CUSTOMERS = ['Bramble Lane Haulage', 'Tessel Farm Co-op', 'Oriel Street Garage', 'Marrow Point Ferries', 'Kestrel Vale Plant Hire'];
 
 /** Typical weekly units per model (invented), so the plan has something to smooth. */
-const WEEKLY: Record<string, number> = { 'CH-F46': 4, 'CH-F52': 6, 'CH-F58': 2, 'CH-V49': 3, 'CH-V55': 7, 'CH-P61': 1.5, 'CH-P66': 1, 'CH-K60': 2 };
+const WEEKLY: Record<string, number> = { 'CH-F46': 20, 'CH-F52': 30, 'CH-F58': 3, 'CH-V49': 5, 'CH-V55': 30, 'CH-P61': 2, 'CH-P66': 1.5, 'CH-K60': 4 };
 
 export function seedLeadBoard(tx: Tx, o: { now: Date; random: () => number; leadId: string; officeId: string }): { orders: number; cards: number } {
 	const { now, random } = o;
@@ -57,7 +57,15 @@ export function seedLeadBoard(tx: Tx, o: { now: Date; random: () => number; lead
 	// Cards.
 	const at = new Date(now.getTime() - 3 * 3_600_000);
 	const modelId = (code: string) => models.find((m) => m.code === code)!.id;
-	const oldestLot = tx.select({ id: coreLot.id }).from(coreLot).orderBy(asc(coreLot.receivedOn)).limit(3).all().at(-1)?.id ?? null;
+	// the lot with the most units waiting for the lathes
+	const busyLot =
+		tx
+			.select({ id: unit.lotId, n: sql<number>`count(*)` })
+			.from(unit)
+			.where(eq(unit.state, 'cleaned'))
+			.groupBy(unit.lotId)
+			.orderBy(desc(sql`count(*)`), asc(unit.lotId))
+			.get()?.id ?? null;
 	const waiting = tx
 		.select({ id: unit.id })
 		.from(unit)
@@ -69,7 +77,7 @@ export function seedLeadBoard(tx: Tx, o: { now: Date; random: () => number; lead
 		{ title: 'Rush — Bramble Lane Haulage truck is waiting', style: 'rush', kind: 'units', dueOn: addDays(today, 1), units: pick(3) },
 		{ title: 'Customer rebuilds promised for Friday', style: 'customer', kind: 'units', dueOn: addDays(today, 3), units: pick(4) },
 		{ title: 'Restock CH-V55 for Coast Depot', style: 'restock', kind: 'rule', dueOn: addDays(today, 6), rule: { ruleModelId: modelId('CH-V55') } },
-		{ title: 'Finish the older skid on the lathes first', style: 'finish', kind: 'rule', dueOn: null, rule: { ruleStage: 'machine', ruleLotId: oldestLot } },
+		{ title: 'Finish the older skid on the lathes first', style: 'finish', kind: 'rule', dueOn: null, rule: { ruleStage: 'machine', ruleLotId: busyLot } },
 		{ title: 'Conversion kits for the swap shop', style: 'kit', kind: 'rule', dueOn: addDays(today, 10), rule: { ruleModelId: modelId('CH-K60') } }
 	];
 	cards.forEach((c, i) => {

@@ -25,7 +25,7 @@ export const load: PageServerLoad = async ({ locals }) => {
 		units: Object.fromEntries(open.filter((c) => c.kind === 'units').map((c) => [c.id, cardUnits(db, c.id, 200)])),
 		models: db.select({ code: turboModel.code }).from(turboModel).orderBy(asc(turboModel.code)).all().map((m) => m.code),
 		lots: db.select({ code: coreLot.code }).from(coreLot).orderBy(desc(coreLot.receivedOn)).limit(200).all().map((l) => l.code),
-		log: recentCardChanges(db, 30),
+		log: recentCardChanges(db, 15),
 		canEdit: STEERING_ROLES.includes(locals.user!.role)
 	};
 };
