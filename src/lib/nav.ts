@@ -12,7 +12,7 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/stations', label: 'Stations', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/units', label: 'Units', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/cards', label: 'Cards', roles: ['owner', 'lead', 'office', 'tech'] },
-	{ href: '/orders', label: 'Orders', roles: ['owner', 'lead', 'office'] },
+	{ href: '/demand', label: 'Demand', roles: ['owner', 'lead', 'office'] },
 	{ href: '/stock', label: 'Stock', roles: ['owner', 'lead', 'office'] },
 	{ href: '/plan', label: 'Plan', roles: ['owner', 'lead'] },
 	{ href: '/admin/users', label: 'People', roles: ['owner'] }

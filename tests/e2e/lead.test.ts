@@ -124,22 +124,22 @@ test('a tech may watch the board but not change it', async ({ page, baseURL }) =
 
 test('the office imports an order file: bad rows are listed and nothing is imported until they are fixed', async ({ page }) => {
 	await signIn(page, 'office');
-	await page.goto('/orders/import');
+	await page.goto('/demand/import');
 	await page.getByLabel('…or paste the rows').fill('Order No,Depot,Part,Qty,Due\nE2E-1,Coast,CH-V55,4,2099-12-14\nE2E-2,Harbour,CH-V55,1,2099-12-14\n');
 	await page.getByTestId('import-preview').click();
 	await expect(page.getByTestId('bad-rows')).toContainText('"Harbour" is not a channel');
 	await expect(page.getByTestId('import-go')).toBeDisabled();
 	await expect(page.getByTestId('map-channel')).toHaveValue('Depot');
-	await page.goto('/orders');
+	await page.goto('/demand');
 	await expect(page.getByTestId('orders')).not.toContainText('E2E-1');
 
-	await page.goto('/orders/import');
+	await page.goto('/demand/import');
 	await page.getByLabel('…or paste the rows').fill('Order No,Depot,Part,Qty,Due\nE2E-1,Coast,CH-V55,4,2099-12-14\nE2E-2,Lakes,CH-V55,1,2099-12-14\n');
 	await page.getByTestId('import-preview').click();
 	await expect(page.getByTestId('good-orders')).toContainText('2 orders, 2 rows');
 	await page.getByTestId('import-go').click();
 	await expect(page.getByTestId('import-done')).toContainText('Imported 2 orders with 2 lines.');
-	await page.goto('/orders');
+	await page.goto('/demand');
 	await expect(page.getByTestId('orders')).toContainText('E2E-1');
 	await expect(page.getByTestId('orders')).toContainText('Lakes Depot');
 });

@@ -124,8 +124,8 @@ describe('stock, WIP and the build plan', () => {
 		expect(checkAccess('/(app)/cards', 'POST', 'lead')).toBe('allow');
 		expect(checkAccess('/api/cards/order', 'PUT', 'tech')).toBe('forbidden');
 		expect(checkAccess('/api/cards/order', 'PUT', 'owner')).toBe('allow');
-		expect(checkAccess('/(app)/orders', 'POST', 'office')).toBe('allow');
-		expect(checkAccess('/(app)/orders/import', 'GET', 'tech')).toBe('forbidden');
+		expect(checkAccess('/(app)/demand', 'POST', 'office')).toBe('allow');
+		expect(checkAccess('/(app)/demand/import', 'GET', 'tech')).toBe('forbidden');
 		expect(checkAccess('/(app)/plan', 'GET', 'office')).toBe('forbidden');
 	});
 });

@@ -42,8 +42,8 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/(app)/cards': { read: ALL_ROLES, write: STEERING_ROLES },
 	'/api/cards': { read: ALL_ROLES },
 	'/api/cards/order': { read: ALL_ROLES, methods: { PUT: STEERING_ROLES } },
-	'/(app)/orders': { read: ALL_ROLES, write: INTAKE_ROLES },
-	'/(app)/orders/import': { read: INTAKE_ROLES, write: INTAKE_ROLES },
+	'/(app)/demand': { read: ALL_ROLES, write: INTAKE_ROLES },
+	'/(app)/demand/import': { read: INTAKE_ROLES, write: INTAKE_ROLES },
 	'/(app)/stock': { read: ALL_ROLES },
 	'/(app)/plan': { read: STEERING_ROLES, write: STEERING_ROLES }
 };
