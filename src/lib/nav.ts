@@ -12,8 +12,12 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/stations', label: 'Stations', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/units', label: 'Units', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/models', label: 'Models', roles: ['owner', 'lead', 'tech'] },
-	{ href: '/orders', label: 'Orders', roles: ['owner', 'lead', 'office'] },
+	{ href: '/orders', label: 'Rebuilds', roles: ['owner', 'lead', 'office'] },
 	{ href: '/shipments', label: 'Shipments', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/lots', label: 'Lots', roles: ['owner', 'lead', 'office', 'tech'] },
+	{ href: '/cards', label: 'Cards', roles: ['owner', 'lead', 'office', 'tech'] },
+	{ href: '/demand', label: 'Demand', roles: ['owner', 'lead', 'office'] },
+	{ href: '/stock', label: 'Stock', roles: ['owner', 'lead', 'office'] },
+	{ href: '/plan', label: 'Plan', roles: ['owner', 'lead'] },
 	{ href: '/admin/users', label: 'People', roles: ['owner'] }
 ];

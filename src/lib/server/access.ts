@@ -65,7 +65,16 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/(print)/lots/[code=code]/travelers': { read: ALL_ROLES },
 	'/(print)/units/[serial=serial]/traveler': { read: ALL_ROLES },
 	'/(print)/units/[serial=serial]/print': { read: ALL_ROLES },
-	'/api/units/[serial=serial]/barcode': { read: ALL_ROLES }
+	'/api/units/[serial=serial]/barcode': { read: ALL_ROLES },
+
+	// The lead's board: cards order the floor; orders, stock and the build plan.
+	'/(app)/cards': { read: ALL_ROLES, write: STEERING_ROLES },
+	'/api/cards': { read: ALL_ROLES },
+	'/api/cards/order': { read: ALL_ROLES, methods: { PUT: STEERING_ROLES } },
+	'/(app)/demand': { read: ALL_ROLES, write: INTAKE_ROLES },
+	'/(app)/demand/import': { read: INTAKE_ROLES, write: INTAKE_ROLES },
+	'/(app)/stock': { read: ALL_ROLES },
+	'/(app)/plan': { read: STEERING_ROLES, write: STEERING_ROLES }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

@@ -1,8 +1,10 @@
 /** Stations and what waits at them. */
 import { and, asc, desc, eq, gte, inArray, sql } from 'drizzle-orm';
+import type { CardStyleKey } from '../domain/cards/card-style';
+import { cardIdForUnit } from './card-match';
 import { STAGE_INFO, STAGES, type Stage } from '../domain/units/states';
 import type { DbOrTx } from './db';
-import { coreLot, station, turboModel, unit, unitEvent, type Station } from './db/schema';
+import { coreLot, priorityCard, station, turboModel, unit, unitEvent, type Station } from './db/schema';
 
 export interface StationView {
 	code: string;
@@ -49,9 +51,11 @@ export interface QueueItem {
 	priority: number;
 	stateSince: string;
 	version: number;
+	/** The priority card the unit is on here (see src/lib/domain/queue-order.ts), or null. */
+	card: { id: number; title: string; style: CardStyleKey } | null;
 }
 
-/** Units waiting for this station's stage: highest priority first, then the oldest. */
+/** Units waiting for this station's stage, in queue order: card rank, card due date, then the oldest; no card last. */
 export function stationQueue(db: DbOrTx, stage: Stage, limit = 100): { items: QueueItem[]; total: number } {
 	const states = [...STAGE_INFO[stage].input];
 	const cond = inArray(unit.state, states);
@@ -67,16 +71,35 @@ export function stationQueue(db: DbOrTx, stage: Stage, limit = 100): { items: Qu
 			lot: coreLot.code,
 			priority: unit.priority,
 			stateSince: unit.stateSince,
-			version: unit.version
+			version: unit.version,
+			cardId: priorityCard.id,
+			cardTitle: priorityCard.title,
+			cardStyle: priorityCard.style
 		})
 		.from(unit)
 		.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
 		.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
+		.leftJoin(priorityCard, eq(priorityCard.id, cardIdForUnit(db, stage)))
 		.where(cond)
-		.orderBy(desc(unit.priority), asc(unit.stateSince), asc(unit.id))
+		.orderBy(
+			sql`${priorityCard.id} is null`,
+			asc(priorityCard.rank),
+			sql`${priorityCard.dueOn} is null`,
+			asc(priorityCard.dueOn),
+			asc(priorityCard.id),
+			asc(unit.stateSince),
+			asc(unit.id)
+		)
 		.limit(limit)
 		.all();
-	return { items: items.map((r) => ({ ...r, stateSince: r.stateSince.toISOString() })), total };
+	return {
+		items: items.map(({ cardId, cardTitle, cardStyle, ...r }) => ({
+			...r,
+			stateSince: r.stateSince.toISOString(),
+			card: cardId !== null ? { id: cardId, title: cardTitle!, style: cardStyle! } : null
+		})),
+		total
+	};
 }
 
 /** Moves made at a station since `since` (today's work), newest first. */

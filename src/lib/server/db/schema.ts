@@ -7,6 +7,8 @@ import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-or
 import { ROLES } from '../../domain/auth/roles';
 import { STAGES, UNIT_STATES } from '../../domain/units/states';
 import { ACTIONS } from '../../domain/units/actions';
+import { CARD_STYLE_KEYS } from '../../domain/cards/card-style';
+import { ORDER_CHANNELS, ORDER_STATUSES } from '../../domain/orders/channels';
 
 const createdAt = () =>
 	integer('created_at', { mode: 'timestamp_ms' })
@@ -493,3 +495,116 @@ export const signInThrottle = sqliteTable('sign_in_throttle', {
 	locks: integer('locks').notNull().default(0),
 	consecutive: integer('consecutive').notNull().default(0)
 });
+// ---------------------------------------------------------------------------
+// The lead's board: priority cards, orders and demand, build-plan settings.
+// ---------------------------------------------------------------------------
+
+export const CARD_KINDS = ['units', 'rule'] as const;
+
+/** A priority card: orders every station's queue by its rank. Either a set of units or a rule. */
+export const priorityCard = sqliteTable(
+	'priority_card',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		title: text('title').notNull(),
+		/** Calendar date, YYYY-MM-DD. */
+		dueOn: text('due_on'),
+		/** 1 is the top of the board. Open cards keep distinct ranks. */
+		rank: integer('rank').notNull(),
+		style: text('style', { enum: CARD_STYLE_KEYS }).notNull().default('plain'),
+		kind: text('kind', { enum: CARD_KINDS }).notNull(),
+		/** Rule cards: any of model, stage and lot; a unit matches when every set part matches. */
+		ruleModelId: integer('rule_model_id').references(() => turboModel.id, { onDelete: 'restrict' }),
+		ruleStage: text('rule_stage', { enum: STAGES }),
+		ruleLotId: integer('rule_lot_id').references(() => coreLot.id, { onDelete: 'restrict' }),
+		open: integer('open', { mode: 'boolean' }).notNull().default(true),
+		/** Optimistic lock: bumped by every change to the card. */
+		version: integer('version').notNull().default(1),
+		createdBy: text('created_by').references(() => user.id, { onDelete: 'restrict' }),
+		createdAt: createdAt(),
+		updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+		updatedBy: text('updated_by').references(() => user.id, { onDelete: 'restrict' }),
+		closedAt: integer('closed_at', { mode: 'timestamp_ms' })
+	},
+	(t) => [index('priority_card_open_rank_idx').on(t.open, t.rank)]
+);
+
+/** Units on a units card. A unit is on at most one such card; moving it replaces the row. */
+export const priorityCardUnit = sqliteTable(
+	'priority_card_unit',
+	{
+		unitId: integer('unit_id')
+			.primaryKey()
+			.references(() => unit.id, { onDelete: 'cascade' }),
+		cardId: integer('card_id')
+			.notNull()
+			.references(() => priorityCard.id, { onDelete: 'cascade' }),
+		addedAt: integer('added_at', { mode: 'timestamp_ms' }).notNull()
+	},
+	(t) => [index('priority_card_unit_card_idx').on(t.cardId)]
+);
+
+/** Append-only log of every change to a card: who, when, what. */
+export const priorityCardChange = sqliteTable(
+	'priority_card_change',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		cardId: integer('card_id')
+			.notNull()
+			.references(() => priorityCard.id, { onDelete: 'restrict' }),
+		userId: text('user_id').references(() => user.id, { onDelete: 'restrict' }),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull(),
+		/** created, edited, closed, reopened, reordered, units_added, units_moved_in, units_moved_out */
+		kind: text('kind').notNull(),
+		/** JSON: what changed (before/after values, serials, ranks). */
+		detail: text('detail', { mode: 'json' }).$type<Record<string, unknown>>()
+	},
+	(t) => [index('priority_card_change_card_idx').on(t.cardId, t.at)]
+);
+
+
+/** A customer order: a channel, a due date and lines of model × quantity. */
+export const customerOrder = sqliteTable(
+	'customer_order',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		/** The order's reference as the office or the customer writes it; unique. */
+		ref: text('ref').notNull().unique(),
+		channel: text('channel', { enum: ORDER_CHANNELS }).notNull(),
+		customer: text('customer').notNull().default(''),
+		/** Calendar dates, YYYY-MM-DD. */
+		orderedOn: text('ordered_on').notNull(),
+		dueOn: text('due_on'),
+		status: text('status', { enum: ORDER_STATUSES }).notNull().default('open'),
+		notes: text('notes').notNull().default(''),
+		createdBy: text('created_by').references(() => user.id, { onDelete: 'restrict' }),
+		createdAt: createdAt()
+	},
+	(t) => [index('customer_order_status_due_idx').on(t.status, t.dueOn), index('customer_order_ordered_idx').on(t.orderedOn)]
+);
+
+export const orderLine = sqliteTable(
+	'order_line',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		orderId: integer('order_id')
+			.notNull()
+			.references(() => customerOrder.id, { onDelete: 'cascade' }),
+		modelId: integer('model_id')
+			.notNull()
+			.references(() => turboModel.id, { onDelete: 'restrict' }),
+		quantity: integer('quantity').notNull()
+	},
+	(t) => [index('order_line_order_idx').on(t.orderId), index('order_line_model_idx').on(t.modelId)]
+);
+
+/** Shop-wide planning settings by name (e.g. the smoothing constant). */
+export const planSetting = sqliteTable('plan_setting', {
+	name: text('name').primaryKey(),
+	value: real('value').notNull(),
+	updatedBy: text('updated_by').references(() => user.id, { onDelete: 'restrict' }),
+	updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull()
+});
+
+export type PriorityCard = typeof priorityCard.$inferSelect;
+export type CustomerOrder = typeof customerOrder.$inferSelect;
