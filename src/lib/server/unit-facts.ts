@@ -7,6 +7,7 @@ import type { ActionName } from '../domain/units/actions';
 import type { UnitFacts } from '../domain/units/guards';
 import type { DbOrTx } from './db';
 import { scrapReason, type Unit } from './db/schema';
+import { inspectionFacts } from './checklists';
 
 export type FactLoader = (tx: DbOrTx, unit: Unit) => Partial<UnitFacts>;
 
@@ -20,7 +21,8 @@ const scrapReasons: FactLoader = (tx) => ({
 });
 
 export const FACT_LOADERS: Partial<Record<ActionName, readonly FactLoader[]>> = {
-	scrap: [scrapReasons]
+	scrap: [scrapReasons],
+	accept: [inspectionFacts]
 };
 
 export function loadFacts(tx: DbOrTx, unitRow: Unit, action: ActionName): UnitFacts {

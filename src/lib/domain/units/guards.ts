@@ -27,6 +27,10 @@ export interface UnitFacts {
 	hasAssemblyRecord?: boolean;
 	/** A customer's unit: null when no quote is needed, otherwise whether it is approved. */
 	quoteApproved?: boolean | null;
+	/** The unit's model family has a teardown checklist, so accepting it needs a qualification. */
+	inspectionRequired?: boolean;
+	/** A completed qualification with the accept verdict was recorded for this very move. */
+	hasInspectionRecord?: boolean;
 	[key: string]: unknown;
 }
 
@@ -50,8 +54,17 @@ const scrapReasonKnown: Guard = ({ unit, data, facts }) => {
 		: `${unit.serial}: "${code}" is not a scrap reason the shop uses; choose one from the list.`;
 };
 
+/** Accept needs a completed qualification where the family has a checklist. */
+export const inspectionRecorded: Guard = ({ unit, facts }) => {
+	if (!facts.inspectionRequired) return null;
+	return facts.hasInspectionRecord
+		? null
+		: `${unit.serial}: fill in the teardown checklist before accepting it.`;
+};
+
 export type GuardTable = Partial<Record<ActionName, readonly Guard[]>>;
 
 export const DEFAULT_GUARDS: GuardTable = {
-	scrap: [scrapReasonKnown]
+	scrap: [scrapReasonKnown],
+	accept: [inspectionRecorded]
 };
