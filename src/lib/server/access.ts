@@ -36,7 +36,17 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/units/[serial=serial]': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/events': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/stations': { read: ALL_ROLES },
-	'/api/stream': { read: ALL_ROLES }
+	'/api/stream': { read: ALL_ROLES },
+
+	// floor boards
+	'/tv': { read: ALL_ROLES },
+	'/(app)/admin/floor': { read: OWNER },
+	'/(app)/admin/scrap-reasons': { read: OWNER },
+	'/(app)/admin/checklists': { read: OWNER },
+	'/api/stations/[code=code]/board': { read: ALL_ROLES },
+	'/api/units/[serial=serial]/undo': { read: FLOOR_ROLES, methods: { POST: FLOOR_ROLES } },
+	'/api/units/[serial=serial]/inspection': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
+	'/api/photos/[sha=sha256]': { read: ALL_ROLES }
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
