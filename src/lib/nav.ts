@@ -11,5 +11,8 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/', label: 'Home', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/stations', label: 'Stations', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/units', label: 'Units', roles: ['owner', 'lead', 'office', 'tech'] },
-	{ href: '/admin/users', label: 'People', roles: ['owner'] }
+	{ href: '/admin/users', label: 'People', roles: ['owner'] },
+	{ href: '/admin/floor', label: 'Floor', roles: ['owner'] },
+	{ href: '/admin/checklists', label: 'Checklists', roles: ['owner'] },
+	{ href: '/admin/scrap-reasons', label: 'Scrap reasons', roles: ['owner'] }
 ];
