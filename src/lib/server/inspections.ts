@@ -143,3 +143,9 @@ export function photoMime(db: DbOrTx, sha256: string): string | null {
 	return db.select({ mime: unitPhoto.mime }).from(unitPhoto).where(eq(unitPhoto.sha256, sha256)).get()?.mime ?? null;
 }
 
+
+/** What the unit page shows of the qualification: every record and every photo. */
+export function unitInspectionData(db: DbOrTx, serial: string): { inspections: InspectionView[]; photos: PhotoView[] } {
+	const u = db.select({ id: unit.id }).from(unit).where(eq(unit.serial, serial)).get();
+	return u ? { inspections: unitInspections(db, serial), photos: unitPhotos(db, u.id) } : { inspections: [], photos: [] };
+}
