@@ -4,6 +4,7 @@
  * board at once. While the stream is not open, boards poll instead (`pollMs`).
  */
 import type { QueryClient } from '@tanstack/svelte-query';
+import { untrack } from 'svelte';
 import { connectLive, type LiveStatus } from './live';
 
 export const POLL_MS = 5_000;
@@ -19,8 +20,10 @@ export interface LiveLink {
 /** Call during a component's setup: opens the stream for as long as the component lives. */
 export function createLiveLink(client: QueryClient): LiveLink {
 	const link = $state<{ status: LiveStatus; last: string | null }>({ status: 'connecting', last: null });
-	$effect(() => {
-		return connectLive(
+	$effect(() =>
+		// untracked: the status callbacks read and write `link`, which must not restart the stream
+		untrack(() =>
+			connectLive(
 			(m) => {
 				if (m.topic !== 'unit' && m.topic !== 'card') return;
 				link.last = m.at;
@@ -34,8 +37,9 @@ export function createLiveLink(client: QueryClient): LiveLink {
 				if (s === 'open' && !wasOpen) void client.invalidateQueries({ queryKey: ['board'] });
 			},
 			['unit', 'card']
-		);
-	});
+			)
+		)
+	);
 	return {
 		get status() {
 			return link.status;
