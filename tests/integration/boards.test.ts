@@ -79,7 +79,7 @@ function png(w = 16, h = 12): Buffer {
 function qualifyForm(fields: Record<string, string>, files: { name: string; bytes: Uint8Array; type?: string }[] = []) {
 	const fd = new FormData();
 	for (const [k, v] of Object.entries(fields)) fd.set(k, v);
-	for (const f of files) fd.append('photos', new File([f.bytes], f.name, { type: f.type ?? 'application/octet-stream' }));
+	for (const f of files) fd.append('photos', new File([new Uint8Array(f.bytes)], f.name, { type: f.type ?? 'application/octet-stream' }));
 	return fd;
 }
 
