@@ -8,7 +8,9 @@ const env = {
 	DATABASE_URL: process.env.DATABASE_URL ?? 'data/spoolyard.db',
 	PORT: process.env.PORT ?? '3000',
 	HOST: process.env.HOST ?? '127.0.0.1',
-	ORIGIN: process.env.ORIGIN ?? `http://localhost:${process.env.PORT ?? '3000'}`
+	ORIGIN: process.env.ORIGIN ?? `http://localhost:${process.env.PORT ?? '3000'}`,
+	// teardown photos: up to 12 of 8 MB in one qualification (the server's default limit is 512 kB)
+	BODY_SIZE_LIMIT: process.env.BODY_SIZE_LIMIT ?? '100M'
 };
 
 function run(cmd: string, args: string[]) {

@@ -19,5 +19,8 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/demand', label: 'Demand', roles: ['owner', 'lead', 'office'] },
 	{ href: '/stock', label: 'Stock', roles: ['owner', 'lead', 'office'] },
 	{ href: '/plan', label: 'Plan', roles: ['owner', 'lead'] },
-	{ href: '/admin/users', label: 'People', roles: ['owner'] }
+	{ href: '/admin/users', label: 'People', roles: ['owner'] },
+	{ href: '/admin/floor', label: 'Floor', roles: ['owner'] },
+	{ href: '/admin/checklists', label: 'Checklists', roles: ['owner'] },
+	{ href: '/admin/scrap-reasons', label: 'Scrap reasons', roles: ['owner'] }
 ];

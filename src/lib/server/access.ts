@@ -74,7 +74,18 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/(app)/demand': { read: ALL_ROLES, write: INTAKE_ROLES },
 	'/(app)/demand/import': { read: INTAKE_ROLES, write: INTAKE_ROLES },
 	'/(app)/stock': { read: ALL_ROLES },
-	'/(app)/plan': { read: STEERING_ROLES, write: STEERING_ROLES }
+	'/(app)/plan': { read: STEERING_ROLES, write: STEERING_ROLES },
+
+	// floor boards
+	'/tv': { read: ALL_ROLES },
+	'/(app)/admin/floor': { read: OWNER },
+	'/(app)/admin/scrap-reasons': { read: OWNER },
+	'/(app)/admin/checklists': { read: OWNER },
+	'/api/stations/[code=code]/board': { read: ALL_ROLES },
+	'/api/units/[serial=serial]/undo': { read: FLOOR_ROLES, methods: { POST: FLOOR_ROLES } },
+	'/api/units/[serial=serial]/inspection': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
+	'/api/photos/[sha=sha256]': { read: ALL_ROLES }
+
 };
 
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);

@@ -16,6 +16,7 @@ import { demoBuildRecords } from './seed-balance';
 import { seedCustomerOrders } from './seed-customer';
 import { seedIntakeDemo } from './seed-intake';
 import { seedLeadBoard } from './seed-lead';
+import { seedBoards } from './seed-boards';
 import { coreLot, scrapReason, station, supplier, turboModel, unit, unitEvent, user, type LotSource } from './db/schema';
 
 export const DEMO_SHOP = 'Corvid Hill Turbo Works';
@@ -262,6 +263,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 		seedCustomerOrders(tx, { now, random, shopName: DEMO_SHOP, office, tech: techs[0], stationIds, modelIds });
 		seedIntakeDemo(tx);
 		seedLeadBoard(tx, { now, random, leadId: lead.id, officeId: office.id });
+		seedBoards(tx, random);
 		return { users: userIds.length, lots: lotCount, units, events };
 	});
 }

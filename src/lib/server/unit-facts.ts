@@ -9,6 +9,7 @@ import type { DbOrTx } from './db';
 import { scrapReason, type Unit } from './db/schema';
 import { hasAcceptedAssembly, hasPassingBalance } from './balance';
 import { customerQuoteFacts } from './rebuild-facts';
+import { inspectionFacts } from './checklists';
 
 export type FactLoader = (tx: DbOrTx, unit: Unit) => Partial<UnitFacts>;
 
@@ -29,7 +30,8 @@ export const FACT_LOADERS: Partial<Record<ActionName, readonly FactLoader[]>> = 
 	balance: [balanceFacts],
 	assemble: [assemblyFacts],
 	clean: [customerQuoteFacts],
-	return: [customerQuoteFacts]
+	return: [customerQuoteFacts],
+	accept: [inspectionFacts]
 };
 
 export function loadFacts(tx: DbOrTx, unitRow: Unit, action: ActionName): UnitFacts {

@@ -9,7 +9,7 @@ import { ACTION_INFO, isActionName, type ActionName } from '../domain/units/acti
 import { decide, mainAction, stageAction } from '../domain/units/machine';
 import { formatSerial, normalizeSerial } from '../domain/units/serial';
 import { STAGE_INFO, nextStage, type Stage, type UnitState } from '../domain/units/states';
-import type { Db, DbOrTx } from './db';
+import type { Db, DbOrTx, Tx } from './db';
 import { coreLot, counter, station, supplier, turboModel, unit, unitEvent, user, type Unit } from './db/schema';
 import { publish } from './live';
 import { loadFacts } from './unit-facts';
@@ -156,8 +156,23 @@ export function getUnitWithHistory(db: DbOrTx, serial: string): { unit: UnitView
 }
 
 /** Make a move on a unit. Everything happens in one immediate transaction. */
-export function applyMove(db: Db, actor: Actor, input: MoveInput, now: Date = new Date()): MoveResult {
-	const result = applyMoveInTransaction(db, actor, input, now);
+/**
+ * Work done inside the move's transaction, before the state machine decides: records the
+ * move's guards look for (an inspection with its answers and photos). A refused move rolls
+ * the hook's writes back with it.
+ */
+export interface MoveHooks {
+	before?: (tx: Tx, unitRow: Unit, nextSeq: number, stationRow: typeof station.$inferSelect | undefined) => void;
+}
+
+class RolledBack extends Error {
+	constructor(readonly result: MoveResult) {
+		super('move refused; rolled back');
+	}
+}
+
+export function applyMove(db: Db, actor: Actor, input: MoveInput, now: Date = new Date(), hooks: MoveHooks = {}): MoveResult {
+	const result = applyMoveInTransaction(db, actor, input, now, hooks);
 	if (result.ok && !result.replayed) {
 		publish({
 			topic: 'unit',
@@ -173,12 +188,25 @@ export function applyMove(db: Db, actor: Actor, input: MoveInput, now: Date = ne
 	return result;
 }
 
-function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Date): MoveResult {
+function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Date, hooks: MoveHooks): MoveResult {
 	if (!isActionName(input.action) || input.action === 'receive') {
 		return { ok: false, status: 400, code: 'invalid', message: 'Unknown action.', fields: { action: ['Unknown action.'] } };
 	}
-	return db.transaction(
-		(tx): MoveResult => {
+	try {
+		return db.transaction(
+			(tx): MoveResult => {
+				const r = moveBody(tx);
+				if (!r.ok && hooks.before) throw new RolledBack(r);
+				return r;
+			},
+			{ behavior: 'immediate' }
+		);
+	} catch (e) {
+		if (e instanceof RolledBack) return e.result;
+		throw e;
+	}
+	function moveBody(tx: Tx): MoveResult {
+		{
 			const prior = tx
 				.select({ event: unitEvent, serial: unit.serial })
 				.from(unitEvent)
@@ -226,6 +254,7 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 					unit: current()
 				};
 			}
+			hooks.before?.(tx, row, row.version + 1, stationRow);
 
 			const decision = decide(
 				{ serial: row.serial, state: row.state, held: row.held, holdReason: row.holdReason },
@@ -274,9 +303,8 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 			afterUnitMove(tx, row, input.action, decision.to, now);
 			const ev = eventViewQuery(tx).where(eq(unitEvent.id, inserted.id)).get()!;
 			return { ok: true, status: 201, replayed: false, unit: current(), event: toEventView(ev) };
-		},
-		{ behavior: 'immediate' }
-	);
+		}
+	}
 }
 
 /** Hand out `count` consecutive serial numbers inside the caller's transaction. */

@@ -30,6 +30,10 @@ export interface UnitFacts {
 	/** A customer's unit (linked to a rebuild order), and what became of its quote. */
 	customerUnit?: boolean;
 	quoteDeclined?: boolean;
+	/** The unit's model family has a teardown checklist, so accepting it needs a qualification. */
+	inspectionRequired?: boolean;
+	/** A completed qualification with the accept verdict was recorded for this very move. */
+	hasInspectionRecord?: boolean;
 	[key: string]: unknown;
 }
 
@@ -66,6 +70,13 @@ const assemblyRecorded: Guard = ({ unit, facts }) =>
 		: null;
 export { quoteApprovedBeforeWork, returnOnlyCustomerUnits } from './customer-guards';
 import { quoteApprovedBeforeWork, returnOnlyCustomerUnits } from './customer-guards';
+/** Accept needs a completed qualification where the family has a checklist. */
+export const inspectionRecorded: Guard = ({ unit, facts }) => {
+	if (!facts.inspectionRequired) return null;
+	return facts.hasInspectionRecord
+		? null
+		: `${unit.serial}: fill in the teardown checklist before accepting it.`;
+};
 
 export type GuardTable = Partial<Record<ActionName, readonly Guard[]>>;
 
@@ -74,5 +85,6 @@ export const DEFAULT_GUARDS: GuardTable = {
 	balance: [passingBalance],
 	assemble: [assemblyRecorded],
 	clean: [quoteApprovedBeforeWork],
-	return: [returnOnlyCustomerUnits]
+	return: [returnOnlyCustomerUnits],
+	accept: [inspectionRecorded]
 };

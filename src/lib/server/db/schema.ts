@@ -608,3 +608,110 @@ export const planSetting = sqliteTable('plan_setting', {
 
 export type PriorityCard = typeof priorityCard.$inferSelect;
 export type CustomerOrder = typeof customerOrder.$inferSelect;
+
+// ---------------------------------------------------------------------------------------
+// Floor boards: station assignments, teardown checklists, inspection records and photos.
+// ---------------------------------------------------------------------------------------
+
+/** Which techs call a station home. A tech may have several; a station several techs. */
+export const userStation = sqliteTable(
+	'user_station',
+	{
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'cascade' }),
+		stationId: integer('station_id')
+			.notNull()
+			.references(() => station.id, { onDelete: 'cascade' })
+	},
+	(t) => [uniqueIndex('user_station_pk').on(t.userId, t.stationId), index('user_station_station_idx').on(t.stationId)]
+);
+
+/** The teardown checklist for a model family (one per family). */
+export const checklist = sqliteTable('checklist', {
+	id: integer('id').primaryKey({ autoIncrement: true }),
+	family: text('family').notNull().unique(),
+	name: text('name').notNull(),
+	createdAt: createdAt()
+});
+
+export const checklistItem = sqliteTable(
+	'checklist_item',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		checklistId: integer('checklist_id')
+			.notNull()
+			.references(() => checklist.id, { onDelete: 'cascade' }),
+		label: text('label').notNull(),
+		/** Unit of the optional measurement (e.g. "mm"); null when the item takes none. */
+		measureUnit: text('measure_unit'),
+		sortOrder: integer('sort_order').notNull().default(0),
+		active: integer('active', { mode: 'boolean' }).notNull().default(true)
+	},
+	(t) => [index('checklist_item_list_idx').on(t.checklistId, t.sortOrder)]
+);
+
+/** One teardown qualification: the answers, the verdict and the event that carried it out. */
+export const inspection = sqliteTable(
+	'inspection',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		unitId: integer('unit_id')
+			.notNull()
+			.references(() => unit.id, { onDelete: 'restrict' }),
+		checklistId: integer('checklist_id').references(() => checklist.id, { onDelete: 'restrict' }),
+		verdict: text('verdict', { enum: ['accept', 'scrap'] }).notNull(),
+		reasonCode: text('reason_code'),
+		note: text('note'),
+		userId: text('user_id').references(() => user.id, { onDelete: 'restrict' }),
+		stationId: integer('station_id').references(() => station.id, { onDelete: 'restrict' }),
+		/** The verdict event's seq within the unit. */
+		eventSeq: integer('event_seq'),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull()
+	},
+	(t) => [index('inspection_unit_idx').on(t.unitId, t.at)]
+);
+
+export const inspectionAnswer = sqliteTable(
+	'inspection_answer',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		inspectionId: integer('inspection_id')
+			.notNull()
+			.references(() => inspection.id, { onDelete: 'cascade' }),
+		itemId: integer('item_id').references(() => checklistItem.id, { onDelete: 'set null' }),
+		/** The item's words when answered, so a later rename does not rewrite the record. */
+		label: text('label').notNull(),
+		result: text('result', { enum: ['pass', 'fail', 'na'] }).notNull(),
+		measurement: real('measurement'),
+		measureUnit: text('measure_unit')
+	},
+	(t) => [index('inspection_answer_inspection_idx').on(t.inspectionId)]
+);
+
+/** A photo of a unit, stored on disk by the SHA-256 of its bytes. */
+export const unitPhoto = sqliteTable(
+	'unit_photo',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		unitId: integer('unit_id')
+			.notNull()
+			.references(() => unit.id, { onDelete: 'restrict' }),
+		inspectionId: integer('inspection_id').references(() => inspection.id, { onDelete: 'set null' }),
+		sha256: text('sha256').notNull(),
+		mime: text('mime', { enum: ['image/jpeg', 'image/png', 'image/webp'] }).notNull(),
+		bytes: integer('bytes').notNull(),
+		width: integer('width'),
+		height: integer('height'),
+		/** The name the file had on the device; shown only, never used as a path. */
+		originalName: text('original_name').notNull().default(''),
+		userId: text('user_id').references(() => user.id, { onDelete: 'restrict' }),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull()
+	},
+	(t) => [index('unit_photo_unit_idx').on(t.unitId), index('unit_photo_sha_idx').on(t.sha256)]
+);
+
+export type Checklist = typeof checklist.$inferSelect;
+export type ChecklistItem = typeof checklistItem.$inferSelect;
+export type Inspection = typeof inspection.$inferSelect;
+export type UnitPhoto = typeof unitPhoto.$inferSelect;

@@ -5,6 +5,7 @@ import { normalizeSerial } from '$lib/domain/units/serial';
 import { newKey } from '$lib/ids';
 import { getDb } from '$lib/server/db';
 import { listScrapReasons } from '$lib/server/scrap-reasons';
+import { stationBoard } from '$lib/server/board';
 import { doneAtStation, getStation, stationQueue } from '$lib/server/stations';
 import { applyMove, scanAtStation, type MoveResult } from '$lib/server/units';
 import type { Actions, PageServerLoad } from './$types';
@@ -21,6 +22,7 @@ export const load: PageServerLoad = async ({ params, locals }) => {
 	return {
 		station,
 		queue,
+		board: stationBoard(db, station.code)!,
 		done: doneAtStation(db, station.code, startOfToday()),
 		scrapReasons: listScrapReasons(db),
 		canScan: FLOOR_ROLES.includes(locals.user!.role),

@@ -1,0 +1,140 @@
+/**
+ * A station's board: what waits for its stage, what is in work here, what was done here
+ * today, each with its count and every unit's age in its state against the station's
+ * overdue threshold.
+ *
+ * "In work here" is a unit that still waits for this station's stage and whose latest history
+ * entry was made at this station — at teardown, a unit torn down here that still needs its
+ * verdict; elsewhere a unit held, released or undone here. It takes no extra action: the scan
+ * that starts the work is the move itself.
+ */
+import { and, desc, eq, gte, inArray, sql } from 'drizzle-orm';
+import { ACTION_INFO, isActionName } from '../domain/units/actions';
+import { ageMs, isOverdue } from '../domain/units/stage-time';
+import { STAGE_INFO } from '../domain/units/states';
+import type { DbOrTx } from './db';
+import { coreLot, station, turboModel, unit, unitEvent, user } from './db/schema';
+import { getStation, stationQueue, type QueueItem, type StationView } from './stations';
+
+export interface BoardUnit {
+	serial: string;
+	model: string;
+	lot: string;
+	state: string;
+	held: boolean;
+	holdReason: string | null;
+	priority: number;
+	stateSince: string;
+	ageMs: number;
+	overdue: boolean;
+	/** A priority card, when the planning side gave the unit one. */
+	card?: unknown;
+}
+
+export interface DoneItem {
+	serial: string;
+	action: string;
+	done: string;
+	toState: string;
+	at: string;
+	by: string | null;
+	seq: number;
+}
+
+export interface Board {
+	station: StationView;
+	waiting: { items: BoardUnit[]; total: number };
+	inWork: { items: BoardUnit[]; total: number };
+	done: { items: DoneItem[]; total: number };
+	at: string;
+}
+
+export function startOfDay(now: Date): Date {
+	return new Date(now.getFullYear(), now.getMonth(), now.getDate());
+}
+
+function toBoardUnit(item: Omit<QueueItem, "card"> & { card?: unknown }, overdueHours: number, now: Date): BoardUnit {
+	const out: BoardUnit = {
+		serial: item.serial,
+		model: item.model,
+		lot: item.lot,
+		state: item.state,
+		held: item.held,
+		holdReason: item.holdReason,
+		priority: item.priority,
+		stateSince: item.stateSince,
+		ageMs: ageMs(item.stateSince, now),
+		overdue: isOverdue(item.stateSince, now, overdueHours)
+	};
+	if (item.card !== undefined && item.card !== null) out.card = item.card;
+	return out;
+}
+
+export function inWorkAt(db: DbOrTx, stationId: number, states: readonly string[]) {
+	return db
+		.select({
+			serial: unit.serial,
+			originalTag: unit.originalTag,
+			state: unit.state,
+			held: unit.held,
+			holdReason: unit.holdReason,
+			model: turboModel.code,
+			lot: coreLot.code,
+			priority: unit.priority,
+			stateSince: unit.stateSince,
+			version: unit.version
+		})
+		.from(unit)
+		.innerJoin(unitEvent, and(eq(unitEvent.unitId, unit.id), eq(unitEvent.seq, unit.version)))
+		.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
+		.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
+		.where(and(eq(unitEvent.stationId, stationId), inArray(unit.state, states as never[])))
+		.orderBy(desc(unitEvent.at))
+		.limit(100)
+		.all()
+		.map((r) => ({ ...r, stateSince: r.stateSince.toISOString() }));
+}
+
+export function stationBoard(db: DbOrTx, code: string, now: Date = new Date()): Board | null {
+	const view = getStation(db, code);
+	if (!view) return null;
+	const row = db.select({ id: station.id }).from(station).where(eq(station.code, code)).get()!;
+	const inWork = inWorkAt(db, row.id, STAGE_INFO[view.stage].input);
+	const busy = new Set(inWork.map((u) => u.serial));
+	const queue = stationQueue(db, view.stage);
+	const waitingItems = queue.items.filter((q) => !busy.has(q.serial));
+	const since = startOfDay(now);
+	const doneRows = db
+		.select({ serial: unit.serial, action: unitEvent.action, toState: unitEvent.toState, at: unitEvent.at, by: user.name, seq: unitEvent.seq })
+		.from(unitEvent)
+		.innerJoin(unit, eq(unit.id, unitEvent.unitId))
+		.leftJoin(user, eq(user.id, unitEvent.userId))
+		.where(and(eq(unitEvent.stationId, row.id), gte(unitEvent.at, since)))
+		.orderBy(desc(unitEvent.at), desc(unitEvent.id))
+		.limit(100)
+		.all();
+	const doneTotal =
+		db
+			.select({ n: sql<number>`count(*)` })
+			.from(unitEvent)
+			.where(and(eq(unitEvent.stationId, row.id), gte(unitEvent.at, since)))
+			.get()?.n ?? 0;
+	return {
+		station: view,
+		waiting: { items: waitingItems.map((q) => toBoardUnit(q, view.overdueHours, now)), total: Math.max(0, queue.total - inWork.length) },
+		inWork: { items: inWork.map((q) => toBoardUnit(q, view.overdueHours, now)), total: inWork.length },
+		done: {
+			items: doneRows.map((d) => ({
+				serial: d.serial,
+				action: d.action,
+				done: d.action === 'undo' ? 'Undone' : isActionName(d.action) ? ACTION_INFO[d.action].done : d.action,
+				toState: d.toState,
+				at: d.at.toISOString(),
+				by: d.by,
+				seq: d.seq
+			})),
+			total: doneTotal
+		},
+		at: now.toISOString()
+	};
+}
