@@ -3,7 +3,7 @@
  * Times are stored as integer milliseconds since the epoch unless the column says otherwise.
  */
 import { sql } from 'drizzle-orm';
-import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { index, integer, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
 import { ROLES } from '../../domain/auth/roles';
 import { STAGES, UNIT_STATES } from '../../domain/units/states';
 import { ACTIONS } from '../../domain/units/actions';
@@ -110,7 +110,9 @@ export const unit = sqliteTable(
 		stateSince: integer('state_since', { mode: 'timestamp_ms' }).notNull(),
 		notes: text('notes').notNull().default(''),
 		createdAt: createdAt(),
-		updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull()
+		updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+		/** A warranty return points at the unit it is a return of (the serial that was shipped). */
+		returnOfUnitId: integer('return_of_unit_id').references((): AnySQLiteColumn => unit.id, { onDelete: 'restrict' })
 	},
 	(t) => [
 		index('unit_board_idx').on(t.state, t.held, t.priority, t.stateSince),
@@ -144,7 +146,8 @@ export const unitEvent = sqliteTable(
 		uniqueIndex('unit_event_unit_seq_idx').on(t.unitId, t.seq),
 		index('unit_event_station_at_idx').on(t.stationId, t.at),
 		index('unit_event_at_idx').on(t.at),
-		index('unit_event_user_at_idx').on(t.userId, t.at)
+		index('unit_event_user_at_idx').on(t.userId, t.at),
+		index('unit_event_action_unit_idx').on(t.action, t.unitId)
 	]
 );
 
@@ -169,4 +172,13 @@ export type ScrapReason = typeof scrapReason.$inferSelect;
 export const counter = sqliteTable('counter', {
 	name: text('name').primaryKey(),
 	value: integer('value').notNull()
+});
+
+// ── Owner's reports: shop settings and report indexes ──────────────────────────────────────
+
+/** Shop-wide settings, one row per key (e.g. `labour_rate_cents_per_hour`). */
+export const shopSetting = sqliteTable('shop_setting', {
+	key: text('key').primaryKey(),
+	value: text('value').notNull(),
+	updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull()
 });
