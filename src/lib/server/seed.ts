@@ -12,6 +12,7 @@ import type { Stage, UnitState } from '../domain/units/states';
 import { hashPassword } from './auth';
 import type { Db } from './db';
 import { allocateSerials } from './units';
+import { seedReportsDemo } from './seed-reports';
 import { coreLot, scrapReason, station, supplier, turboModel, unit, unitEvent, user, type LotSource } from './db/schema';
 
 export const DEMO_SHOP = 'Corvid Hill Turbo Works';
@@ -252,6 +253,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 				events += rows.length;
 			}
 		}
+		seedReportsDemo(tx, now, random);
 		return { users: userIds.length, lots: lotCount, units, events };
 	});
 }
