@@ -11,5 +11,6 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/', label: 'Home', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/stations', label: 'Stations', roles: ['owner', 'lead', 'office', 'tech'] },
 	{ href: '/units', label: 'Units', roles: ['owner', 'lead', 'office', 'tech'] },
-	{ href: '/admin/users', label: 'People', roles: ['owner'] }
+	{ href: '/admin/users', label: 'People', roles: ['owner'] },
+	{ href: '/reports', label: 'Reports', roles: ['owner', 'lead'] }
 ];
