@@ -134,3 +134,12 @@ describe('money and weeks', () => {
 		expect(weekStart(Date.UTC(2026, 11, 6, 23, 59))).toBe('2026-11-30');
 	});
 });
+
+describe('p-chart against a standard centre line', () => {
+	it('uses the given p̄ for the limits (NIST/SEMATECH §6.3.3.2 limits with a known standard)', () => {
+		const chart = pChart([{ n: 50, defects: 25 }], 3, 0.2313);
+		expect(r4(chart.points[0].ucl)).toBe(0.4102);
+		expect(chart.points[0].signal).toBe('above');
+		expect(chart.pBar).toBe(0.2313);
+	});
+});

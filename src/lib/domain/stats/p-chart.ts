@@ -41,9 +41,13 @@ export interface PChartPoint extends PChartLimits {
 	signal: PChartSignal;
 }
 
-/** Limits and the signal for each sample, in the order given (time order for a control chart). */
-export function pChart(samples: readonly PChartSample[], k = 3): { pBar: number | null; points: PChartPoint[] } {
-	const centre = pBar(samples);
+/**
+ * Limits and the signal for each sample, in the order given (time order for a control chart).
+ * The centre line is p̄ of these samples unless a standard `centre` is given (e.g. the whole
+ * shop's rate when only one supplier's lots are charted).
+ */
+export function pChart(samples: readonly PChartSample[], k = 3, standard?: number | null): { pBar: number | null; points: PChartPoint[] } {
+	const centre = standard === undefined ? pBar(samples) : standard;
 	return {
 		pBar: centre,
 		points: samples.map((s) => {
