@@ -43,7 +43,7 @@ const shopArb = fc.record({
 	rate: fc.integer({ min: 0, max: 9000 })
 });
 
-type Shop = fc.infer<typeof shopArb>;
+type Shop = typeof shopArb extends fc.Arbitrary<infer T> ? T : never;
 type Ev = { unitId: number; seq: number; action: string; toState: UnitState; at: number; data: Record<string, unknown> | null };
 
 function build(shop: Shop) {

@@ -118,7 +118,8 @@ export const unit = sqliteTable(
 		index('unit_board_idx').on(t.state, t.held, t.priority, t.stateSince),
 		index('unit_lot_idx').on(t.lotId, t.state),
 		index('unit_model_idx').on(t.modelId, t.state),
-		index('unit_tag_idx').on(t.originalTag)
+		index('unit_tag_idx').on(t.originalTag),
+		index('unit_lot_model_state_idx').on(t.lotId, t.modelId, t.state)
 	]
 );
 
