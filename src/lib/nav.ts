@@ -22,5 +22,6 @@ export const NAV: readonly NavItem[] = [
 	{ href: '/admin/users', label: 'People', roles: ['owner'] },
 	{ href: '/admin/floor', label: 'Floor', roles: ['owner'] },
 	{ href: '/admin/checklists', label: 'Checklists', roles: ['owner'] },
-	{ href: '/admin/scrap-reasons', label: 'Scrap reasons', roles: ['owner'] }
+	{ href: '/admin/scrap-reasons', label: 'Scrap reasons', roles: ['owner'] },
+	{ href: '/reports', label: 'Reports', roles: ['owner', 'lead'] }
 ];

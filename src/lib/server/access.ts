@@ -19,6 +19,7 @@ export interface RouteRule {
 }
 
 const OWNER: readonly Role[] = ['owner'];
+const OWNER_AND_LEAD: readonly Role[] = ['owner', 'lead'];
 
 export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/login': { read: 'public' },
@@ -84,7 +85,23 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/stations/[code=code]/board': { read: ALL_ROLES },
 	'/api/units/[serial=serial]/undo': { read: FLOOR_ROLES, methods: { POST: FLOOR_ROLES } },
 	'/api/units/[serial=serial]/inspection': { read: ALL_ROLES, methods: { POST: FLOOR_ROLES } },
-	'/api/photos/[sha=sha256]': { read: ALL_ROLES }
+	'/api/photos/[sha=sha256]': { read: ALL_ROLES },
+
+	// Owner's reports (flow is shared with the lead, who steers the floor)
+	'/(app)/reports': { read: OWNER_AND_LEAD },
+	'/(app)/reports/scrap': { read: OWNER },
+	'/(app)/reports/scrap/lots/[code=code]': { read: OWNER },
+	'/(app)/reports/suppliers': { read: OWNER },
+	'/(app)/reports/flow': { read: OWNER_AND_LEAD },
+	'/(app)/reports/warranty': { read: OWNER },
+	'/(app)/reports/warranty/[serial=serial]': { read: OWNER },
+	'/(app)/reports/settings': { read: OWNER },
+	'/api/reports/scrap': { read: OWNER },
+	'/api/reports/scrap/lots/[code=code]': { read: OWNER },
+	'/api/reports/suppliers': { read: OWNER },
+	'/api/reports/flow': { read: OWNER_AND_LEAD },
+	'/api/reports/warranty': { read: OWNER },
+	'/api/reports/warranty/[serial=serial]': { read: OWNER }
 
 };
 

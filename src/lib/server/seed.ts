@@ -17,6 +17,7 @@ import { seedCustomerOrders } from './seed-customer';
 import { seedIntakeDemo } from './seed-intake';
 import { seedLeadBoard } from './seed-lead';
 import { seedBoards } from './seed-boards';
+import { seedReportsDemo } from './seed-reports';
 import { coreLot, scrapReason, station, supplier, turboModel, unit, unitEvent, user, type LotSource } from './db/schema';
 
 export const DEMO_SHOP = 'Corvid Hill Turbo Works';
@@ -264,6 +265,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 		seedIntakeDemo(tx);
 		seedLeadBoard(tx, { now, random, leadId: lead.id, officeId: office.id });
 		seedBoards(tx, random);
+		seedReportsDemo(tx, now, random);
 		return { users: userIds.length, lots: lotCount, units, events };
 	});
 }

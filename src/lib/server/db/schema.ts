@@ -3,7 +3,7 @@
  * Times are stored as integer milliseconds since the epoch unless the column says otherwise.
  */
 import { sql } from 'drizzle-orm';
-import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import { index, integer, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
 import { ROLES } from '../../domain/auth/roles';
 import { STAGES, UNIT_STATES } from '../../domain/units/states';
 import { ACTIONS } from '../../domain/units/actions';
@@ -112,13 +112,16 @@ export const unit = sqliteTable(
 		stateSince: integer('state_since', { mode: 'timestamp_ms' }).notNull(),
 		notes: text('notes').notNull().default(''),
 		createdAt: createdAt(),
-		updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull()
+		updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
+		/** A warranty return points at the unit it is a return of (the serial that was shipped). */
+		returnOfUnitId: integer('return_of_unit_id').references((): AnySQLiteColumn => unit.id, { onDelete: 'restrict' })
 	},
 	(t) => [
 		index('unit_board_idx').on(t.state, t.held, t.priority, t.stateSince),
 		index('unit_lot_idx').on(t.lotId, t.state),
 		index('unit_model_idx').on(t.modelId, t.state),
-		index('unit_tag_idx').on(t.originalTag)
+		index('unit_tag_idx').on(t.originalTag),
+		index('unit_lot_model_state_idx').on(t.lotId, t.modelId, t.state)
 	]
 );
 
@@ -146,7 +149,8 @@ export const unitEvent = sqliteTable(
 		uniqueIndex('unit_event_unit_seq_idx').on(t.unitId, t.seq),
 		index('unit_event_station_at_idx').on(t.stationId, t.at),
 		index('unit_event_at_idx').on(t.at),
-		index('unit_event_user_at_idx').on(t.userId, t.at)
+		index('unit_event_user_at_idx').on(t.userId, t.at),
+		index('unit_event_action_unit_idx').on(t.action, t.unitId)
 	]
 );
 
@@ -715,3 +719,12 @@ export type Checklist = typeof checklist.$inferSelect;
 export type ChecklistItem = typeof checklistItem.$inferSelect;
 export type Inspection = typeof inspection.$inferSelect;
 export type UnitPhoto = typeof unitPhoto.$inferSelect;
+
+// ── Owner's reports: shop settings and report indexes ──────────────────────────────────────
+
+/** Shop-wide settings, one row per key (e.g. `labour_rate_cents_per_hour`). */
+export const shopSetting = sqliteTable('shop_setting', {
+	key: text('key').primaryKey(),
+	value: text('value').notNull(),
+	updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull()
+});

@@ -1,0 +1,65 @@
+import { expect, test } from '@playwright/test';
+import Papa from 'papaparse';
+import { readFile } from 'node:fs/promises';
+import { signIn } from './helpers';
+
+test('the owner filters the scrap report by supplier, opens a flagged lot and exports the CSV', async ({ page }) => {
+	await signIn(page, 'owner');
+	await page.getByRole('link', { name: 'Reports', exact: true }).click();
+	await page.getByRole('link', { name: 'Scrap by core lot' }).click();
+	await expect(page.getByTestId('lot-table')).toBeVisible();
+
+	await page.getByLabel('Supplier', { exact: true }).selectOption({ label: 'Ninemile Salvage & Parts' });
+	await page.getByRole('button', { name: 'Apply' }).click();
+	await expect(page).toHaveURL(/supplier=\d+/);
+	const rows = page.getByTestId('lot-row');
+	await expect(rows.first()).toContainText('Ninemile Salvage & Parts');
+	for (const text of await rows.allInnerTexts()) expect(text).toContain('Ninemile Salvage & Parts');
+
+	const flaggedRow = rows.filter({ has: page.getByTestId('flagged') }).first();
+	await expect(flaggedRow).toBeVisible();
+	const code = (await flaggedRow.getAttribute('data-lot'))!;
+
+	// The CSV holds the same rows, the flagged lot marked.
+	const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export CSV' }).first().click()]);
+	expect(download.suggestedFilename()).toBe('scrap-by-lot.csv');
+	const csv = Papa.parse<Record<string, string>>(await readFile((await download.path())!, 'utf8'), { header: true, skipEmptyLines: true });
+	expect(csv.data.length).toBe(await rows.count());
+	expect(csv.data.every((r) => r.Supplier === 'Ninemile Salvage & Parts')).toBe(true);
+	const line = csv.data.find((r) => r.Lot === code)!;
+	expect(line['Above UCL']).toBe('yes');
+	expect(Number(line['Scrap rate'])).toBeGreaterThan(Number(line['p-chart UCL']));
+
+	await flaggedRow.getByRole('link', { name: code }).click();
+	await expect(page.getByTestId('lot-code')).toHaveText(`Lot ${code}`);
+	await expect(page.getByTestId('lot-flag')).toContainText('Above the upper control limit');
+	await expect(page.getByTestId('lot-reasons')).toBeVisible();
+});
+
+test('a tech cannot open the scrap report or its data', async ({ page }) => {
+	await signIn(page, 'tech');
+	const res = await page.goto('/reports/scrap');
+	expect(res?.status()).toBe(403);
+	const api = await page.request.get('/api/reports/scrap');
+	expect(api.status()).toBe(403);
+	await expect(page.getByRole('link', { name: 'Reports', exact: true })).toHaveCount(0);
+});
+
+test('screens of the other reports render (for a look)', async ({ page }) => {
+	await signIn(page, 'owner');
+	for (const [path, shot] of [
+		['/reports/scrap', 'scrap'],
+		['/reports/suppliers', 'suppliers'],
+		['/reports/flow', 'flow'],
+		['/reports/warranty', 'warranty']
+	] as const) {
+		await page.goto(path);
+		await expect(page.getByRole('heading', { level: 1 })).toBeVisible();
+		await expect(page.locator('table').first()).toBeVisible();
+		if (process.env.SHOTS) await page.screenshot({ path: `test-results/${shot}.png`, fullPage: true });
+	}
+	await page.getByTestId('returns-table').getByRole('link').first().click();
+	await expect(page.getByTestId('trace-original')).toBeVisible();
+	await expect(page.getByTestId('trace-stations')).toBeVisible();
+	if (process.env.SHOTS) await page.screenshot({ path: 'test-results/trace.png', fullPage: true });
+});
