@@ -1,0 +1,29 @@
+/** The filters every owner's report reads from the URL, so a view can be bookmarked and shared. */
+import { z } from 'zod';
+import { LOT_SOURCES } from '../db/schema';
+
+const day = z
+	.string()
+	.regex(/^\d{4}-\d{2}-\d{2}$/, 'Dates are YYYY-MM-DD.')
+	.refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)), 'That date does not exist.');
+
+export const reportFilterSchema = z
+	.object({
+		from: day.optional(),
+		to: day.optional(),
+		supplier: z.coerce.number({ error: 'Choose a supplier from the list.' }).int().positive('Choose a supplier from the list.').optional(),
+		model: z.string().trim().min(1).max(40).optional(),
+		source: z.enum(LOT_SOURCES, { error: 'Choose a source type from the list.' }).optional()
+	})
+	.refine((f) => !f.from || !f.to || f.from <= f.to, { message: 'The start date is after the end date.', path: ['from'] });
+
+export type ReportFilter = z.infer<typeof reportFilterSchema>;
+
+export function reportFilterFromUrl(url: URL) {
+	const raw: Record<string, string> = {};
+	for (const key of ['from', 'to', 'supplier', 'model', 'source']) {
+		const v = url.searchParams.get(key);
+		if (v !== null && v.trim() !== '') raw[key] = v.trim();
+	}
+	return reportFilterSchema.safeParse(raw);
+}

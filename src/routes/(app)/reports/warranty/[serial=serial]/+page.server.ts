@@ -1,0 +1,47 @@
+import { fail } from '@sveltejs/kit';
+import { randomUUID } from 'node:crypto';
+import { z } from 'zod';
+import { FAILURE_MODES } from '$lib/domain/warranty/failure-modes';
+import { getDb } from '$lib/server/db';
+import { listScrapReasons } from '$lib/server/scrap-reasons';
+import { applyMove } from '$lib/server/units';
+import type { Actions, PageServerLoad } from './$types';
+
+export const load: PageServerLoad = async () => ({ reasons: listScrapReasons(getDb()), formKey: randomUUID() });
+
+const verdictSchema = z
+	.object({
+		verdict: z.enum(['accept', 'scrap'], { error: 'Choose accept or scrap.' }),
+		failureMode: z.enum(FAILURE_MODES, { error: 'Choose the failure mode the teardown found.' }),
+		reasonCode: z.string().trim().optional(),
+		labourMinutes: z.preprocess(
+			(v) => (v === '' || v === undefined ? undefined : v),
+			z.coerce.number({ error: 'Give the teardown minutes as a number.' }).int('Give whole minutes.').min(0, 'Minutes cannot be negative.').max(24 * 60, 'More than a day of teardown is not plausible.').optional()
+		),
+		idempotencyKey: z.string().min(8).max(80),
+		expectedVersion: z.coerce.number().int().positive()
+	})
+	.refine((v) => v.verdict !== 'scrap' || !!v.reasonCode, { message: 'Choose a scrap reason.', path: ['reasonCode'] });
+
+export const actions: Actions = {
+	verdict: async ({ request, params, locals }) => {
+		const raw = Object.fromEntries(await request.formData());
+		const values = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, String(v)]));
+		const parsed = verdictSchema.safeParse(values);
+		if (!parsed.success) return fail(400, { values, error: parsed.error.issues[0]?.message ?? 'Check the form.' });
+		const v = parsed.data;
+		const data: Record<string, unknown> = { failureMode: v.failureMode };
+		if (v.verdict === 'scrap') data.reasonCode = v.reasonCode;
+		if (v.labourMinutes !== undefined) data.labourMinutes = v.labourMinutes;
+		const user = locals.user!;
+		const result = applyMove(getDb(), { id: user.id, role: user.role }, {
+			serial: params.serial,
+			action: v.verdict,
+			idempotencyKey: v.idempotencyKey,
+			expectedVersion: v.expectedVersion,
+			data
+		});
+		if (!result.ok) return fail(result.status, { values, error: result.message });
+		return { done: `${result.unit.serial} → ${result.unit.state === 'scrapped' ? 'Scrapped' : 'Accepted'}, failure mode recorded.` };
+	}
+};
