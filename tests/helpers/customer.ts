@@ -1,5 +1,7 @@
 /** A test shop with what customer orders need: quote settings, depots, and a way to walk a unit. */
 import { randomUUID } from 'node:crypto';
+import { recordAssembly, recordBalanceRun } from '../../src/lib/server/balance';
+import { GOOD_ASSEMBLY, GOOD_RUN } from './build-records';
 import { shipLocation, rebuildSetting, scrapReason } from '../../src/lib/server/db/schema';
 import { DEMO_DEPOTS } from '../../src/lib/server/seed-customer';
 import { createRebuildOrder, type NewOrder } from '../../src/lib/server/rebuild-orders';
@@ -42,6 +44,9 @@ export function newOrder(shop: TestShop, over: Partial<NewOrder> = {}, now = new
 /** Make moves as the lead (from anywhere); throws on a refusal. */
 export function walk(shop: TestShop, serial: string, actions: ActionName[], data: Record<string, unknown> = {}) {
 	for (const action of actions) {
+		// The build records the assemble and balance moves need (their guards are tested in balance.test.ts).
+		if (action === 'assemble' && !recordAssembly(shop.db, shop.actors.tech, serial, GOOD_ASSEMBLY).ok) throw new Error('assembly record refused');
+		if (action === 'balance' && !recordBalanceRun(shop.db, shop.actors.tech, serial, GOOD_RUN).ok) throw new Error('balance run refused');
 		const r = applyMove(shop.db, shop.actors.lead, { serial, action, idempotencyKey: randomUUID(), data });
 		if (!r.ok) throw new Error(`${action}: ${r.message}`);
 	}

@@ -28,6 +28,13 @@ interface Ctx {
 	techs: { id: string; role: Role }[];
 	lead: { id: string; role: Role };
 	office: { id: string; role: Role };
+	/** Makes the balance and assembly records a move needs, so seeded histories stay valid. */
+	build?: BuildRecorder;
+}
+
+export interface BuildRecorder {
+	before(action: ActionName, ctx: { modelId: number; seq: number; at: Date; actor: { id: string; role: Role }; stationId: number | null }): Record<string, unknown>;
+	flush(unitId: number): void;
 }
 
 /** Make one unit with its history through the real state machine; returns its id. */
@@ -45,7 +52,8 @@ function makeUnit(c: Ctx, lotId: number, modelId: number, serial: string, receiv
 		if (next > c.now - 60_000) break;
 		const actor = step.by === 'lead' ? c.lead : c.techs[Math.floor(c.random() * c.techs.length)];
 		const st = step.station ? c.stations.get(step.station)! : null;
-		const d = decide({ serial, state, held, holdReason }, { action: step.action, role: actor.role, stationStage: st?.stage ?? null, data: step.data ?? {} });
+		const facts = c.build?.before(step.action, { modelId, seq: rows.length, at: new Date(next), actor, stationId: st?.id ?? null }) ?? {};
+		const d = decide({ serial, state, held, holdReason }, { action: step.action, role: actor.role, stationStage: st?.stage ?? null, data: step.data ?? {} }, facts);
 		if (!d.ok) throw new Error(`report demo made an impossible move: ${d.message}`);
 		t = next;
 		rows.push({
@@ -84,6 +92,7 @@ function makeUnit(c: Ctx, lotId: number, modelId: number, serial: string, receiv
 		.returning({ id: unit.id })
 		.get().id;
 	for (const r of rows) c.tx.insert(unitEvent).values({ ...r, unitId: id }).run();
+	c.build?.flush(id);
 	return id;
 }
 
@@ -113,7 +122,7 @@ function newLot(c: Ctx, code: string, source: LotSource, supplierId: number | nu
 		.get().id;
 }
 
-export function seedReportsDemo(tx: DbOrTx, nowDate: Date, random: () => number): void {
+export function seedReportsDemo(tx: DbOrTx, nowDate: Date, random: () => number, build?: BuildRecorder): void {
 	const now = nowDate.getTime();
 	const people = tx.select({ id: user.id, role: user.role }).from(user).all();
 	const c: Ctx = {
@@ -123,7 +132,8 @@ export function seedReportsDemo(tx: DbOrTx, nowDate: Date, random: () => number)
 		stations: new Map(tx.select({ code: station.code, id: station.id, stage: station.stage }).from(station).all().map((s) => [s.code, s])),
 		techs: people.filter((p) => p.role === 'tech'),
 		lead: people.find((p) => p.role === 'lead')!,
-		office: people.find((p) => p.role === 'office')!
+		office: people.find((p) => p.role === 'office')!,
+		build
 	};
 	const models = tx.select({ id: turboModel.id, code: turboModel.code }).from(turboModel).orderBy(asc(turboModel.id)).all();
 	const cheap = tx.select({ id: supplier.id }).from(supplier).where(eq(supplier.name, 'Ninemile Salvage & Parts')).get();
