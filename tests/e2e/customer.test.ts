@@ -1,6 +1,7 @@
 import { expect, test, type Browser, type Page } from '@playwright/test';
 import { simpleParser } from 'mailparser';
 import { scan, signIn } from './helpers';
+import { recordAssembly, recordPassingRun } from './bench';
 
 /** Read the newest message to `to` whose subject contains `subject`, through the local SMTP fake's mailbox. */
 async function waitForMail(owner: Page, to: string, subject: string) {
@@ -122,6 +123,9 @@ test('a customer follows their unit from intake to shipment: link, quote, paymen
 		['BALANCE', 'Balanced'],
 		['PACK', 'Packed']
 	] as const) {
+		// The build records that assembly and balancing need come first, from their own screens.
+		if (code === 'BUILD-1') await recordAssembly(tech, serial);
+		if (code === 'BALANCE') await recordPassingRun(tech, serial);
 		await scanAt(tech, code, serial, state);
 	}
 	await waitForMail(owner, email, 'work has started');
