@@ -98,8 +98,17 @@ async function firstWorking(paths: string[], cookie: string): Promise<string | n
 	return null;
 }
 
-/** Scans fed from a pool of units waiting for teardown; each scan moves one unit on. */
-function scanRequests(pool: string[], cookie: string) {
+/** The station move a scan makes for a unit waiting in each state (moves that need no record first). */
+const SCAN_MOVE: Record<string, { action: string; station: string }> = {
+	received: { action: 'inspect', station: 'TEARDOWN-1' },
+	accepted: { action: 'clean', station: 'WASH' },
+	cleaned: { action: 'machine', station: 'LATHE-B' },
+	machined: { action: 'paint', station: 'PAINT' },
+	painted: { action: 'hold', station: 'BUILD-1' }
+};
+
+/** Scans fed from a pool of units waiting at stations; each scan moves one unit on. */
+function scanRequests(pool: { serial: string; state: string }[], cookie: string) {
 	let next = 0;
 	let n = 0;
 	return {
@@ -108,13 +117,19 @@ function scanRequests(pool: string[], cookie: string) {
 		requests: [
 			{
 				setupRequest: (req: Record<string, unknown>) => {
-					const serial = pool[next++ % pool.length];
+					const u = pool[next++ % pool.length];
+					const move = SCAN_MOVE[u.state];
 					n += 1;
 					return {
 						...req,
 						method: 'POST',
-						path: `/api/units/${serial}/events`,
-						body: JSON.stringify({ action: 'inspect', stationCode: 'TEARDOWN-1', idempotencyKey: `bench-${process.pid}-${n}` })
+						path: `/api/units/${u.serial}/events`,
+						body: JSON.stringify({
+							action: move.action,
+							stationCode: move.station,
+							idempotencyKey: `bench-${process.pid}-${n}`,
+							...(move.action === 'hold' ? { data: { reason: 'Waiting for a wheel' } } : {})
+						})
 					};
 				}
 			}
@@ -122,7 +137,7 @@ function scanRequests(pool: string[], cookie: string) {
 	};
 }
 
-async function liveLatency(cookie: string, pool: string[], count = 200): Promise<{ p50: number; p95: number; max: number; missed: number }> {
+async function liveLatency(cookie: string, pool: { serial: string; state: string }[], count = 200): Promise<{ p50: number; p95: number; max: number; missed: number }> {
 	const controller = new AbortController();
 	const res = await fetch(`${BASE}/api/stream`, { headers: { cookie }, signal: controller.signal });
 	const reader = res.body!.getReader();
@@ -153,11 +168,17 @@ async function liveLatency(cookie: string, pool: string[], count = 200): Promise
 	await new Promise((r) => setTimeout(r, 300));
 	const acked = new Map<string, number>();
 	for (let i = 0; i < count; i++) {
-		const serial = pool[i];
+		const { serial, state } = pool[i];
+		const move = SCAN_MOVE[state];
 		const r = await fetch(`${BASE}/api/units/${serial}/events`, {
 			method: 'POST',
 			headers: { cookie, 'content-type': 'application/json' },
-			body: JSON.stringify({ action: 'inspect', stationCode: 'TEARDOWN-1', idempotencyKey: `live-${process.pid}-${i}` })
+			body: JSON.stringify({
+				action: move.action,
+				stationCode: move.station,
+				idempotencyKey: `live-${process.pid}-${i}`,
+				...(move.action === 'hold' ? { data: { reason: 'Waiting for a wheel' } } : {})
+			})
 		});
 		await r.arrayBuffer();
 		if (r.status === 201) acked.set(serial, performance.now());
@@ -208,10 +229,12 @@ async function main() {
 		if (b.status !== 0) process.exit(1);
 	}
 	const ro = new Database(FILE, { readonly: true });
-	const pool = (ro.prepare(`select serial from unit where state = 'received' and held = 0 order by random()`).all() as { serial: string }[]).map((r) => r.serial);
+	const pool = ro
+		.prepare(`select serial, state from unit where state in ('received', 'accepted', 'cleaned', 'machined', 'painted') and held = 0 order by random()`)
+		.all() as { serial: string; state: string }[];
 	const sample = (ro.prepare(`select serial from unit order by random() limit 2000`).all() as { serial: string }[]).map((r) => r.serial);
 	ro.close();
-	console.log(`  ${pool.length} units waiting for teardown feed the scan runs`);
+	console.log(`  ${pool.length} units waiting at stations feed the scan runs`);
 
 	const server: ChildProcess = spawn('node', ['build'], {
 		env: { ...process.env, PORT: String(PORT), HOST: '127.0.0.1', ORIGIN, DATABASE_URL: FILE },
@@ -225,6 +248,7 @@ async function main() {
 		const tech = await signIn(TECH);
 		const owner = await signIn(OWNER);
 		const livePool = pool.splice(0, 220);
+		const scanPool32 = pool.splice(0, Math.floor(pool.length * 0.7));
 		let s = 0;
 		const history = {
 			headers: { cookie: tech },
@@ -234,7 +258,7 @@ async function main() {
 		const scrap = await firstWorking(['/api/reports/scrap'], owner);
 		for (const c of [1, 32]) {
 			rows.push(await run('trivial JSON (/api/health)', c, { path: '/api/health' }));
-			rows.push(await run('scan (POST move)', c, scanRequests(c === 1 ? pool.splice(0, 20000) : pool, tech)));
+			rows.push(await run('scan (POST move)', c, scanRequests(c === 1 ? pool : scanPool32, tech)));
 			if (board) rows.push(await run(`station board (${board})`, c, { path: board, headers: { cookie: tech } }));
 			rows.push(await run('unit history (/api/units/[serial])', c, history));
 			if (scrap) rows.push(await run(`scrap report (${scrap})`, c, { path: scrap, headers: { cookie: owner } }));

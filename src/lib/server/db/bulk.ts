@@ -93,8 +93,9 @@ export function bulkLoad(db: Db, o: BulkOptions): { lots: number; units: number;
 			for (let i = 0; i < count; i++) {
 				serialN += 1;
 				const serial = formatSerial(serialN);
-				// Older lots are further along; the youngest are still waiting for teardown.
-				const reach = Math.max(1, Math.min(FLOW.length, Math.round(age * 14 + (random() - 0.5) * 3)));
+				// History is finished work; only the youngest lots are still on the floor, spread over the stages.
+				const onFloor = age < 0.06;
+				const reach = onFloor ? 1 + Math.floor(random() * 8) : FLOW.length;
 				const scrapAt = random() < scrapRate ? 2 : -1; // scrapped at the verdict
 				let t = receivedAt + Math.floor(random() * 3_600_000);
 				const history: [string | null, string, string, string | null, string][] = [[null, 'received', 'receive', null, office]];
