@@ -95,7 +95,7 @@ export function bulkLoad(db: Db, o: BulkOptions): { lots: number; units: number;
 				const serial = formatSerial(serialN);
 				// History is finished work; only the youngest lots are still on the floor, spread over the stages.
 				const onFloor = age < 0.06;
-				const reach = onFloor ? 1 + Math.floor(random() * 8) : FLOW.length;
+				const reach = onFloor ? 1 + Math.floor(random() * 9) : FLOW.length;
 				const scrapAt = random() < scrapRate ? 2 : -1; // scrapped at the verdict
 				let t = receivedAt + Math.floor(random() * 3_600_000);
 				const history: [string | null, string, string, string | null, string][] = [[null, 'received', 'receive', null, office]];
