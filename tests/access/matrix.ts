@@ -96,7 +96,8 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 	'/(app)': { path: () => '/', checks: [{ method: 'GET', answers: only(ALL) }] },
 	'/(app)/units': { path: () => '/units', checks: [{ method: 'GET', answers: only(ALL) }] },
 	'/(app)/units/[serial=serial]': { path: (f) => `/units/${f.serial}`, checks: [{ method: 'GET', answers: only(ALL) }] },
-	'/(app)/stations': { path: () => '/stations', checks: [{ method: 'GET', answers: only(ALL) }] },
+	// a tech with one home station is sent straight to it
+	'/(app)/stations': { path: () => '/stations', checks: [{ method: 'GET', answers: { ...only(ALL), tech: 'redirect' } }] },
 	'/(app)/stations/[code=code]': {
 		path: (f) => `/stations/${f.stationCode}`,
 		checks: [
@@ -189,5 +190,72 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 	'/(print)/lots/[code=code]/travelers': { path: (f) => `/lots/${f.lotCode}/travelers`, checks: [{ method: 'GET', answers: only(ALL) }] },
 	'/(print)/units/[serial=serial]/traveler': { path: (f) => `/units/${f.serial}/traveler`, checks: [{ method: 'GET', answers: only(ALL) }] },
 	'/(print)/units/[serial=serial]/print': { path: (f) => `/units/${f.serial}/print`, checks: [{ method: 'GET', answers: only(ALL) }] },
-	'/api/units/[serial=serial]/barcode': { path: (f) => `/api/units/${f.serial}/barcode`, checks: [{ method: 'GET', answers: only(ALL) }] }
+	'/api/units/[serial=serial]/barcode': { path: (f) => `/api/units/${f.serial}/barcode`, checks: [{ method: 'GET', answers: only(ALL) }] },
+
+	// Floor boards, TV mode, the owner's floor setup, undo, qualification and photos
+	'/tv': { path: (f) => `/tv?stations=${f.stationCode}`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/admin/floor': { path: () => '/admin/floor', checks: [{ method: 'GET', answers: only(OWNER) }, ...forms(OWNER, 'assign', 'overdue')] },
+	'/(app)/admin/scrap-reasons': {
+		path: () => '/admin/scrap-reasons',
+		checks: [{ method: 'GET', answers: only(OWNER) }, ...forms(OWNER, 'add', 'rename', 'toggle')]
+	},
+	'/(app)/admin/checklists': {
+		path: () => '/admin/checklists',
+		checks: [{ method: 'GET', answers: only(OWNER) }, ...forms(OWNER, 'create', 'addItem', 'toggleItem')]
+	},
+	'/api/stations/[code=code]/board': { path: (f) => `/api/stations/${f.stationCode}/board`, checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/api/units/[serial=serial]/undo': {
+		path: (f) => `/api/units/${f.serial}/undo`,
+		checks: [{ method: 'POST', json: {}, answers: only(FLOOR, 'pass') }]
+	},
+	'/api/units/[serial=serial]/inspection': {
+		path: (f) => `/api/units/${f.serial}/inspection`,
+		checks: [
+			{ method: 'GET', answers: only(ALL) },
+			{ method: 'POST', json: {}, answers: only(FLOOR, 'pass') }
+		]
+	},
+	'/api/photos/[sha=sha256]': { path: () => `/api/photos/${'0'.repeat(64)}`, checks: [{ method: 'GET', answers: only(ALL, 'missing') }] },
+
+	// The lead's board: cards, demand, stock and the build plan
+	'/(app)/cards': {
+		path: () => '/cards',
+		checks: [{ method: 'GET', answers: only(ALL) }, ...forms(STEERING, 'create', 'update', 'close', 'reopen', 'move')]
+	},
+	'/api/cards': { path: () => '/api/cards', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/api/cards/order': { path: () => '/api/cards/order', checks: [{ method: 'PUT', json: {}, answers: only(STEERING, 'pass') }] },
+	'/(app)/demand': { path: () => '/demand', checks: [{ method: 'GET', answers: only(ALL) }, ...forms(INTAKE, 'create', 'status')] },
+	'/(app)/demand/import': {
+		path: () => '/demand/import',
+		checks: [{ method: 'GET', answers: only(INTAKE) }, ...forms(INTAKE, 'preview', 'import')]
+	},
+	'/(app)/stock': { path: () => '/stock', checks: [{ method: 'GET', answers: only(ALL) }] },
+	'/(app)/plan': {
+		path: () => '/plan',
+		checks: [
+			{ method: 'GET', answers: only(STEERING) },
+			// only the owner sets the smoothing constant
+			...forms(OWNER, 'alpha'),
+			...forms(STEERING, 'card')
+		]
+	},
+
+	// The owner's reports (the lead sees flow)
+	'/(app)/reports': { path: () => '/reports', checks: [{ method: 'GET', answers: only(STEERING) }] },
+	'/(app)/reports/scrap': { path: () => '/reports/scrap', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/(app)/reports/scrap/lots/[code=code]': { path: (f) => `/reports/scrap/lots/${f.lotCode}`, checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/(app)/reports/suppliers': { path: () => '/reports/suppliers', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/(app)/reports/flow': { path: () => '/reports/flow', checks: [{ method: 'GET', answers: only(STEERING) }] },
+	'/(app)/reports/warranty': { path: () => '/reports/warranty', checks: [{ method: 'GET', answers: only(OWNER) }, ...forms(OWNER, 'link')] },
+	'/(app)/reports/warranty/[serial=serial]': {
+		path: (f) => `/reports/warranty/${f.serial}`,
+		checks: [{ method: 'GET', answers: only(OWNER) }, ...forms(OWNER, 'verdict')]
+	},
+	'/(app)/reports/settings': { path: () => '/reports/settings', checks: [{ method: 'GET', answers: only(OWNER) }, ...forms(OWNER, 'default')] },
+	'/api/reports/scrap': { path: () => '/api/reports/scrap', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/scrap/lots/[code=code]': { path: (f) => `/api/reports/scrap/lots/${f.lotCode}`, checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/suppliers': { path: () => '/api/reports/suppliers', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/flow': { path: () => '/api/reports/flow', checks: [{ method: 'GET', answers: only(STEERING) }] },
+	'/api/reports/warranty': { path: () => '/api/reports/warranty', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/warranty/[serial=serial]': { path: (f) => `/api/reports/warranty/${f.serial}`, checks: [{ method: 'GET', answers: only(OWNER) }] }
 };
