@@ -27,6 +27,8 @@ export interface FuzzRequest {
 	path: string;
 	/** 'form' posts as an enhanced form (JSON answer); 'raw' sends body and content-type as given. */
 	kind: 'form' | 'raw';
+	/** For raw requests: the method (POST when not given). */
+	method?: string;
 	fields?: [string, string][];
 	contentType?: string;
 	body?: string;
@@ -42,6 +44,8 @@ export interface FuzzTarget {
 	request(f: FuzzFixtures): fc.Arbitrary<FuzzRequest>;
 	/** Tables a rejected request may still write, on purpose (say why). */
 	mayWrite?: string[];
+	/** Most bodies are legitimately accepted (the action takes no input, or free text): skip the "mostly refused" check. */
+	mostlyValid?: boolean;
 	/** Share of the default run count (e.g. 0.5 for slow targets). */
 	weight?: number;
 }
@@ -259,12 +263,13 @@ export const FUZZ_TARGETS: FuzzTarget[] = [
  * A form action fuzzed with its own field names carrying plausible-or-hostile values, plus stray
  * fields and bodies no form would send. One line per action below.
  */
-function formTarget(route: string, action: string, as: Who, path: (f: FuzzFixtures) => string, names: string[], weight = 0.5): FuzzTarget {
+function formTarget(route: string, action: string, as: Who, path: (f: FuzzFixtures) => string, names: string[], weight = 0.5, mostlyValid = false): FuzzTarget {
 	return {
 		route,
 		action,
 		as,
 		weight,
+		mostlyValid,
 		request: (f) => {
 			const plausible = fc.constantFrom(...f.serials, ...f.stationCodes, '1', '0', '12.5', 'true', 'CH-F46', '2026-11-30');
 			const rec = Object.fromEntries(names.map((n) => [n, field(plausible)]));
@@ -275,10 +280,10 @@ function formTarget(route: string, action: string, as: Who, path: (f: FuzzFixtur
 }
 
 /** A JSON API mutation fuzzed with hostile bodies. */
-function jsonTarget(route: string, as: Who, path: (f: FuzzFixtures) => string, names: string[], weight = 0.5): FuzzTarget {
+function jsonTarget(route: string, as: Who, path: (f: FuzzFixtures) => string, names: string[], weight = 0.5, method = 'POST'): FuzzTarget {
 	return {
 		route,
-		method: 'POST',
+		method,
 		as,
 		weight,
 		request: (f) => {
@@ -288,7 +293,7 @@ function jsonTarget(route: string, as: Who, path: (f: FuzzFixtures) => string, n
 				{ weight: 1, arbitrary: hostileString }
 			);
 			const contentType = fc.constantFrom('application/json', 'application/json', 'text/plain', '');
-			return fc.tuple(body, contentType).map(([b, ct]): FuzzRequest => ({ path: path(f), kind: 'raw', body: b, contentType: ct }));
+			return fc.tuple(body, contentType).map(([b, ct]): FuzzRequest => ({ path: path(f), kind: 'raw', method, body: b, contentType: ct }));
 		}
 	};
 }
@@ -307,7 +312,7 @@ FUZZ_TARGETS.push(
 	formTarget('/(app)/orders', 'create', 'office', () => '/orders', ['name', 'email', 'phone', 'address', 'tag', 'modelCode', 'complaint', 'promisedOn']),
 	formTarget('/(app)/orders', 'settings', 'owner', () => '/orders', ['taxRatePct']),
 	...['addLine', 'removeLine', 'setCore', 'sendQuote', 'withdrawQuote', 'resendLink', 'revokeLink', 'scrapDeclined'].map((a) =>
-		formTarget('/(app)/orders/[id=id]', a, 'office', (f) => `/orders/${f.orderIds[0] ?? 999999}`, ['kind', 'description', 'quantity', 'unitPriceCents', 'lineId', 'amountCents'], 0.25)
+		formTarget('/(app)/orders/[id=id]', a, 'office', (f) => `/orders/${f.orderIds[0] ?? 999999}`, ['kind', 'description', 'quantity', 'unitPriceCents', 'lineId', 'amountCents'], 0.25, ['resendLink', 'revokeLink'].includes(a))
 	),
 	formTarget('/(app)/shipments', 'create', 'lead', () => '/shipments', ['destination', 'carrier', 'trackingNumber', 'serials']),
 	...['approve', 'decline', 'pay', 'prefs'].map((a) => formTarget('/track/[token]', a, 'anon', () => '/track/not-a-valid-token-at-all', ['choice', 'received', 'shipped'], 0.25)),
@@ -317,7 +322,33 @@ FUZZ_TARGETS.push(
 	formTarget('/(app)/lots/[code=code]/import', 'preview', 'office', lotPath('/import'), ['csv', 'tagColumn', 'modelColumn', 'notesColumn']),
 	formTarget('/(app)/lots/[code=code]/import', 'import', 'office', lotPath('/import'), ['csv', 'tagColumn', 'modelColumn', 'notesColumn', 'token']),
 	formTarget('/(app)/suppliers', 'create', 'owner', () => '/suppliers', ['name', 'notes']),
-	formTarget('/(app)/suppliers', 'update', 'owner', () => '/suppliers', ['id', 'name', 'notes', 'active'])
+	formTarget('/(app)/suppliers', 'update', 'owner', () => '/suppliers', ['id', 'name', 'notes', 'active']),
+
+	// a checklist's family and name are free text: most random values are valid names
+	formTarget('/(app)/admin/checklists', 'create', 'owner', () => '/admin/checklists', ['family', 'name'], 0.5, true),
+	formTarget('/(app)/admin/checklists', 'addItem', 'owner', () => '/admin/checklists', ['checklistId', 'label', 'measureUnit']),
+	formTarget('/(app)/admin/checklists', 'toggleItem', 'owner', () => '/admin/checklists', ['itemId']),
+	formTarget('/(app)/admin/floor', 'assign', 'owner', () => '/admin/floor', ['userId', 'code']),
+	formTarget('/(app)/admin/floor', 'overdue', 'owner', () => '/admin/floor', ['code', 'overdueHours']),
+	formTarget('/(app)/admin/scrap-reasons', 'add', 'owner', () => '/admin/scrap-reasons', ['code', 'label', 'category']),
+	formTarget('/(app)/admin/scrap-reasons', 'rename', 'owner', () => '/admin/scrap-reasons', ['code', 'label', 'category']),
+	formTarget('/(app)/admin/scrap-reasons', 'toggle', 'owner', () => '/admin/scrap-reasons', ['code']),
+	...['create', 'update', 'close', 'reopen', 'move'].map((a) =>
+		formTarget('/(app)/cards', a, 'lead', () => '/cards', ['id', 'version', 'title', 'dueOn', 'style', 'kind', 'model', 'stage', 'lot', 'serials', 'toCard'], 0.25)
+	),
+	formTarget('/(app)/demand', 'create', 'office', () => '/demand', ['channel', 'reference', 'dueOn', 'model', 'quantity']),
+	formTarget('/(app)/demand', 'status', 'office', () => '/demand', ['id', 'status']),
+	// a preview only reads the pasted text and answers with what it found: most bodies are fine to preview
+	formTarget('/(app)/demand/import', 'preview', 'office', () => '/demand/import', ['text', 'mapped'], 0.5, true),
+	formTarget('/(app)/demand/import', 'import', 'office', () => '/demand/import', ['text', 'mapped']),
+	formTarget('/(app)/plan', 'alpha', 'owner', () => '/plan', ['alpha']),
+	formTarget('/(app)/plan', 'card', 'lead', () => '/plan', ['model']),
+	formTarget('/(app)/reports/settings', 'default', 'owner', () => '/reports/settings', ['ratePerHour']),
+	formTarget('/(app)/reports/warranty', 'link', 'owner', () => '/reports/warranty', ['returnSerial', 'originalSerial']),
+	formTarget('/(app)/reports/warranty/[serial=serial]', 'verdict', 'owner', (f) => `/reports/warranty/${f.serials[0]}`, ['failureMode', 'note', 'verdict']),
+	jsonTarget('/api/cards/order', 'lead', () => '/api/cards/order', ['order', 'versions'], 0.5, 'PUT'),
+	jsonTarget('/api/units/[serial=serial]/inspection', 'tech', (f) => `/api/units/${f.serials[0]}/inspection`, ['verdict', 'answers', 'reasonCode']),
+	jsonTarget('/api/units/[serial=serial]/undo', 'tech', (f) => `/api/units/${f.serials[0]}/undo`, ['idempotencyKey', 'seq'])
 );
 
 /** Mutating routes left out of the fuzzing, each with the reason. */

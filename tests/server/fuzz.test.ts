@@ -75,6 +75,9 @@ describe('fuzzing the built server', () => {
 		console.log(`fuzz: ${cases} hostile requests over ${FUZZ_TARGETS.length} targets (${resets} closed early by the server on an oversized body)`);
 	});
 
+	/** Tables the server's own background work writes whatever the requests do (the mail outbox sender). */
+	const BACKGROUND_WRITES = ['outbox_message', 'dev_mail'];
+
 	/** Short descriptions in failure reports instead of 70 kB bodies. */
 	function described(req: FuzzRequest): FuzzRequest {
 		const cut = (v: unknown) => (typeof v === 'string' && v.length > 120 ? `${v.slice(0, 120)}…(${v.length} chars)` : v);
@@ -86,7 +89,7 @@ describe('fuzzing the built server', () => {
 		if (req.kind === 'form') return c.action(req.path, new URLSearchParams(req.fields ?? []), req.headers);
 		const headers: Record<string, string> = { origin: c.origin, ...req.headers };
 		if (req.contentType) headers['content-type'] = req.contentType;
-		return c.request('POST', req.path, { headers, body: req.body ?? '' });
+		return c.request((req.method ?? 'POST') as 'POST', req.path, { headers, body: req.body ?? '' });
 	}
 
 	/** Strings a person would read: under keys named message / error / errors, anywhere in the answer. */
@@ -95,7 +98,7 @@ describe('fuzzing the built server', () => {
 			if (under) out.push(v);
 		} else if (Array.isArray(v)) v.forEach((x) => messages(x, under, out));
 		else if (v && typeof v === 'object') {
-			for (const [k, x] of Object.entries(v)) messages(x, under || /^(message|error|errors|_errors)$/.test(k), out);
+			for (const [k, x] of Object.entries(v)) messages(x, under || /^(message|error|errors|_errors)$|(Message|Error)$/.test(k), out);
 		}
 		return out;
 	}
@@ -116,7 +119,7 @@ describe('fuzzing the built server', () => {
 		const runs = Math.max(1, Math.round(RUNS * (target.weight ?? 1)));
 		test(`${name(target)} as ${target.as}: ${runs} hostile requests`, async () => {
 			const c = clients.get(target.as)!;
-			let before = dbChecksum(server.dbFile, target.mayWrite);
+			let before = dbChecksum(server.dbFile, [...(target.mayWrite ?? []), ...BACKGROUND_WRITES]);
 			let refused = 0;
 			await fc.assert(
 				fc.asyncProperty(target.request(fixtures).map(described), async (req) => {
@@ -130,11 +133,11 @@ describe('fuzzing the built server', () => {
 						if (!/ECONNRESET|EPIPE/.test(String((e as Error).message ?? e))) throw e;
 						resets++;
 						expect((await new Client(server.origin).get('/api/health')).status).toBe(200);
-						expect(dbChecksum(server.dbFile, target.mayWrite)).toBe(before);
+						expect(dbChecksum(server.dbFile, [...(target.mayWrite ?? []), ...BACKGROUND_WRITES])).toBe(before);
 						return;
 					}
 					const v = judge(r);
-					const after = dbChecksum(server.dbFile, target.mayWrite);
+					const after = dbChecksum(server.dbFile, [...(target.mayWrite ?? []), ...BACKGROUND_WRITES]);
 					const what = `${String(req.path).slice(0, 120)} → ${r.status} ${r.text.slice(0, 300)}`;
 					expect(r.status, what).toBeLessThan(500);
 					if (v.accepted) {
@@ -151,7 +154,7 @@ describe('fuzzing the built server', () => {
 				}),
 				{ numRuns: runs, seed: SEED, endOnFailure: true }
 			);
-			expect(refused, 'most hostile requests are refused').toBeGreaterThan(runs / 3);
+			if (!target.mostlyValid) expect(refused, 'most hostile requests are refused').toBeGreaterThan(runs / 3);
 			// the session used for fuzzing survived (no request signed it out by accident)
 			if (target.as !== 'anon') expect((await c.get('/api/stations')).status).toBe(200);
 		}, 300_000);

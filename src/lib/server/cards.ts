@@ -263,7 +263,7 @@ export function updateCard(db: Db, actor: Actor, id: number, expectedVersion: nu
 	const result = db.transaction(
 		(tx): CardResult => {
 			const before = tx.select().from(priorityCard).where(eq(priorityCard.id, id)).get();
-			if (!before) return { ok: false, status: 404, code: 'not_found', message: `No card ${id}.` };
+			if (!before) return { ok: false, status: 404, code: 'not_found', message: `There is no card ${id}; reload the board.` };
 			if (before.version !== expectedVersion) return conflict(tx, id, 'editing it');
 			const rule = resolveRule(tx, v);
 			if (!rule.ok) return invalid(rule.fields);
@@ -292,7 +292,7 @@ export function setCardOpen(db: Db, actor: Actor, id: number, expectedVersion: n
 	const result = db.transaction(
 		(tx): CardResult => {
 			const before = tx.select().from(priorityCard).where(eq(priorityCard.id, id)).get();
-			if (!before) return { ok: false, status: 404, code: 'not_found', message: `No card ${id}.` };
+			if (!before) return { ok: false, status: 404, code: 'not_found', message: `There is no card ${id}; reload the board.` };
 			if (before.version !== expectedVersion) return conflict(tx, id, open ? 'reopening it' : 'closing it');
 			if (before.open === open) return { ok: true, card: getCard(tx, id)! };
 			const top = open ? (tx.select({ r: max(priorityCard.rank) }).from(priorityCard).where(eq(priorityCard.open, true)).get()?.r ?? 0) : before.rank;
@@ -390,7 +390,7 @@ export function moveUnitsToCard(db: Db, actor: Actor, serials: readonly string[]
 		(tx): MoveUnitsResult => {
 			if (toCardId !== null) {
 				const target = tx.select().from(priorityCard).where(eq(priorityCard.id, toCardId)).get();
-				if (!target) return { ok: false, status: 404, message: `No card ${toCardId}.` };
+				if (!target) return { ok: false, status: 404, message: `There is no card ${toCardId}; reload the board.` };
 				if (!target.open) return { ok: false, status: 409, message: `“${target.title}” is closed; reopen it or choose another card.` };
 				if (target.kind !== 'units') return { ok: false, status: 400, message: `“${target.title}” is a rule card; units join it by matching its rule.` };
 			}

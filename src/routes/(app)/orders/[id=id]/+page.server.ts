@@ -40,8 +40,14 @@ function act(handler: Handler, roles: readonly string[] = INTAKE_ROLES) {
 
 export const actions: Actions = {
 	addLine: act(({ id, data }) => {
-		const parsed = lineFormSchema.safeParse(Object.fromEntries(data));
-		if (!parsed.success) return fail(400, { message: parsed.error.issues[0]?.message ?? 'Check the line.', line: Object.fromEntries(data) }) as never;
+		// Only the line's own fields are read and echoed back.
+		const line: Record<string, string> = {};
+		for (const k of ['kind', 'description', 'quantity', 'unitPrice']) {
+			const v = data.get(k);
+			if (typeof v === 'string') line[k] = v.slice(0, 500);
+		}
+		const parsed = lineFormSchema.safeParse(line);
+		if (!parsed.success) return fail(400, { message: parsed.error.issues[0]?.message ?? 'Check the line.', line }) as never;
 		addQuoteLine(getDb(), id, parsed.data);
 	}),
 	removeLine: act(({ id, data }) => removeQuoteLine(getDb(), id, Number(data.get('lineId')))),

@@ -25,8 +25,14 @@ const verdictSchema = z
 
 export const actions: Actions = {
 	verdict: async ({ request, params, locals }) => {
-		const raw = Object.fromEntries(await request.formData());
-		const values = Object.fromEntries(Object.entries(raw).map(([k, v]) => [k, String(v)]));
+		// Only the form's own fields are read and echoed back; anything else a client sends is ignored.
+		const form = await request.formData();
+		const FIELDS = ['verdict', 'failureMode', 'reasonCode', 'labourMinutes', 'idempotencyKey', 'expectedVersion'] as const;
+		const values: Record<string, string> = {};
+		for (const k of FIELDS) {
+			const v = form.get(k);
+			if (typeof v === 'string') values[k] = v.slice(0, 500);
+		}
 		const parsed = verdictSchema.safeParse(values);
 		if (!parsed.success) return fail(400, { values, error: parsed.error.issues[0]?.message ?? 'Check the form.' });
 		const v = parsed.data;
