@@ -6,24 +6,18 @@ import { newKey } from '$lib/ids';
 import { getDb } from '$lib/server/db';
 import { listScrapReasons } from '$lib/server/scrap-reasons';
 import { stationBoard } from '$lib/server/board';
-import { doneAtStation, getStation, stationQueue } from '$lib/server/stations';
+import { getStation } from '$lib/server/stations';
 import { applyMove, scanAtStation, type MoveResult } from '$lib/server/units';
 import type { Actions, PageServerLoad } from './$types';
-
-function startOfToday(now = new Date()): Date {
-	return new Date(now.getFullYear(), now.getMonth(), now.getDate());
-}
 
 export const load: PageServerLoad = async ({ params, locals }) => {
 	const db = getDb();
 	const station = getStation(db, params.code);
 	if (!station) error(404, { message: `No station ${params.code}.` });
-	const queue = stationQueue(db, station.stage);
 	return {
 		station,
-		queue,
+		// the board carries the waiting list, the work in hand and today's moves
 		board: stationBoard(db, station.code)!,
-		done: doneAtStation(db, station.code, startOfToday()),
 		scrapReasons: listScrapReasons(db),
 		canScan: FLOOR_ROLES.includes(locals.user!.role),
 		key: newKey('scan')
