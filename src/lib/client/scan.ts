@@ -6,10 +6,14 @@
  */
 import { newKey } from '$lib/ids';
 import { MAX_PHOTO_BYTES, MAX_PHOTOS } from '$lib/domain/photos/image-type';
+import type { QueuedScan, SendAnswer } from './offline-queue';
+import { enqueueScan } from './scan-queue.svelte';
 
 export type ScanOutcome =
 	| { ok: true; serial: string; to: string; held: boolean; replayed: boolean; seq: number | null; action: string; undo?: boolean }
-	| { ok: false; serial: string | null; message: string; fields?: Record<string, string[]> };
+	| { ok: false; serial: string | null; message: string; fields?: Record<string, string[]>; queued?: false }
+	/** No link: the scan waits in this browser and is sent with the same key when the link is back. */
+	| { ok: false; serial: string; message: string; queued: true; fields?: undefined };
 
 interface Sent {
 	status: number;
@@ -69,12 +73,31 @@ export function cleanSerial(raw: string): string | null {
 export async function submitScan(stationCode: string, raw: string): Promise<ScanOutcome> {
 	const serial = cleanSerial(raw);
 	if (!serial) return { ok: false, serial: null, message: `"${raw.trim().slice(0, 40)}" is not a shop serial (SY- and five digits).` };
-	const r = await send(`/api/units/${serial}/events`, {
+	const item: QueuedScan = { key: newKey('scan'), serial, stationCode, at: new Date().toISOString() };
+	const offline = typeof navigator !== 'undefined' && navigator.onLine === false;
+	const r = offline ? ({ network: true } as const) : await postScan(item);
+	if ('network' in r) {
+		if (await enqueueScan(item)) {
+			return { ok: false, serial, queued: true, message: 'No connection to the server. The scan is kept on this screen and is sent by itself when the link is back.' };
+		}
+	}
+	return toOutcome(serial, r);
+}
+
+function postScan(item: QueuedScan) {
+	return send(`/api/units/${item.serial}/events`, {
 		method: 'POST',
 		headers: { 'content-type': 'application/json', 'x-spoolyard-scan': '1' },
-		body: JSON.stringify({ scan: true, stationCode, idempotencyKey: newKey('scan') })
+		body: JSON.stringify({ scan: true, stationCode: item.stationCode, idempotencyKey: item.key })
 	});
-	return toOutcome(serial, r);
+}
+
+/** Send one queued scan again, with the key it was made with. */
+export async function sendQueuedScan(item: QueuedScan): Promise<SendAnswer> {
+	const r = await postScan(item);
+	if ('network' in r) return { kind: 'network' };
+	const o = toOutcome(item.serial, r);
+	return { kind: 'http', status: r.status, message: o.ok ? '' : o.message };
 }
 
 /** A named move (accept, scrap, hold, release, rework) made at a station. */
