@@ -158,6 +158,16 @@ describe('cards order the station queues', () => {
 		expect(q.items.map((i) => i.serial)).toEqual(expected.map((e) => e.unit.serial));
 		expect(q.items.map((i) => i.card?.id ?? null)).toEqual(expected.map((e) => e.card?.id ?? null));
 		expect(expected.some((e) => e.card?.kind === 'rule') && expected.some((e) => e.card?.kind === 'units') && expected.some((e) => !e.card)).toBe(true);
+		// the board's first hundred: the carded units, then the oldest of the rest
+		const carded = expected.filter((e) => e.card).length;
+		for (const n of [100, carded - 3, carded, carded + 7]) {
+			const top = stationQueue(shop.db, 'machine', n);
+			expect(top.total).toBe(N);
+			expect(top.items.map((i) => i.serial)).toEqual(expected.slice(0, n).map((e) => e.unit.serial));
+		}
+		// a queue with no card at all reads only the oldest
+		const empty = stationQueue(shop.db, 'assemble', 10);
+		expect(empty).toEqual({ items: [], total: 0 });
 		console.log(`stationQueue: ${N} units, 25 cards, ${ms.toFixed(1)} ms`);
 		expect(ms).toBeLessThan(2000);
 		expect(shop.db.get<{ n: number }>(sql`select count(*) as n from priority_card_change`).n).toBeGreaterThan(25);

@@ -4,10 +4,11 @@
  */
 import { DrizzleSQLiteAdapter } from '@lucia-auth/adapter-drizzle';
 import { hash, verify } from '@node-rs/argon2';
-import { eq } from 'drizzle-orm';
-import { Lucia } from 'lucia';
+import { eq, sql } from 'drizzle-orm';
+import { Lucia, type DatabaseSession, type DatabaseUser } from 'lucia';
 import type { Role } from '../domain/auth/roles';
 import type { Db } from './db';
+import { prepared } from './db/prepared';
 import { session, user } from './db/schema';
 
 /**
@@ -56,8 +57,42 @@ declare module 'lucia' {
 	}
 }
 
+/**
+ * The library's adapter, with the one lookup every request makes (session and its user) as a
+ * single prepared join instead of two queries built afresh each time.
+ */
+class SessionAdapter extends DrizzleSQLiteAdapter {
+	constructor(private readonly conn: Db) {
+		super(conn, session, user);
+	}
+
+	override async getSessionAndUser(sessionId: string): Promise<[session: DatabaseSession | null, user: DatabaseUser | null]> {
+		const row = prepared(this.conn, 'auth.sessionAndUser', (d) =>
+			d
+				.select({
+					sessionId: session.id,
+					userId: session.userId,
+					expiresAt: session.expiresAt,
+					email: user.email,
+					name: user.name,
+					role: user.role,
+					active: user.active
+				})
+				.from(session)
+				.innerJoin(user, eq(user.id, session.userId))
+				.where(eq(session.id, sql.placeholder('id')))
+				.prepare()
+		).get({ id: sessionId });
+		if (!row) return [null, null];
+		return [
+			{ id: row.sessionId, userId: row.userId, expiresAt: new Date(row.expiresAt * 1000), attributes: {} },
+			{ id: row.userId, attributes: { email: row.email, name: row.name, role: row.role, active: row.active } }
+		];
+	}
+}
+
 function makeLucia(db: Db, secure: boolean) {
-	const adapter = new DrizzleSQLiteAdapter(db, session, user);
+	const adapter = new SessionAdapter(db);
 	return new Lucia(adapter, {
 		sessionCookie: { name: 'sy_session', attributes: { secure, sameSite: 'lax' } },
 		getUserAttributes: (attributes) => ({

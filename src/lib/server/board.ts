@@ -8,13 +8,14 @@
  * verdict; elsewhere a unit held, released or undone here. It takes no extra action: the scan
  * that starts the work is the move itself.
  */
-import { and, desc, eq, gte, inArray, sql } from 'drizzle-orm';
+import { and, desc, eq, gte, or, sql } from 'drizzle-orm';
 import { ACTION_INFO, isActionName } from '../domain/units/actions';
 import { ageMs, isOverdue } from '../domain/units/stage-time';
 import { STAGE_INFO } from '../domain/units/states';
 import type { DbOrTx } from './db';
 import { coreLot, station, turboModel, unit, unitEvent, user } from './db/schema';
-import { getStation, stationQueue, type QueueItem, type StationView } from './stations';
+import { prepared } from './db/prepared';
+import { stationQueue, toStationView, type QueueItem, type StationView } from './stations';
 
 export interface BoardUnit {
 	serial: string;
@@ -70,55 +71,79 @@ function toBoardUnit(item: Omit<QueueItem, "card"> & { card?: unknown }, overdue
 	return out;
 }
 
+const ph = sql.placeholder;
+
+/** The board's reads, prepared once per connection (db/prepared.ts). A stage has one or two input states. */
+const q = {
+	station: (d: DbOrTx) => prepared(d, 'board.station', (d) => d.select().from(station).where(and(eq(station.code, ph('code')), eq(station.active, true))).prepare()),
+	inWork: (d: DbOrTx) =>
+		prepared(d, 'board.inWork', (d) =>
+			d
+				.select({
+					serial: unit.serial,
+					originalTag: unit.originalTag,
+					state: unit.state,
+					held: unit.held,
+					holdReason: unit.holdReason,
+					model: turboModel.code,
+					lot: coreLot.code,
+					priority: unit.priority,
+					stateSince: unit.stateSince,
+					version: unit.version
+				})
+				.from(unit)
+				.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
+				.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
+				.where(and(eq(unit.lastStationId, ph('stationId')), or(eq(unit.state, ph('s1')), eq(unit.state, ph('s2')))))
+				.orderBy(desc(unit.updatedAt), desc(unit.id))
+				.limit(100)
+				.prepare()
+		),
+	done: (d: DbOrTx) =>
+		prepared(d, 'board.done', (d) =>
+			d
+				.select({ serial: unit.serial, action: unitEvent.action, toState: unitEvent.toState, at: unitEvent.at, by: user.name, seq: unitEvent.seq })
+				.from(unitEvent)
+				.innerJoin(unit, eq(unit.id, unitEvent.unitId))
+				.leftJoin(user, eq(user.id, unitEvent.userId))
+				.where(and(eq(unitEvent.stationId, ph('stationId')), gte(unitEvent.at, ph('since'))))
+				.orderBy(desc(unitEvent.at), desc(unitEvent.id))
+				.limit(100)
+				.prepare()
+		),
+	doneCount: (d: DbOrTx) =>
+		prepared(d, 'board.doneCount', (d) =>
+			d
+				.select({ n: sql<number>`count(*)` })
+				.from(unitEvent)
+				.where(and(eq(unitEvent.stationId, ph('stationId')), gte(unitEvent.at, ph('since'))))
+				.prepare()
+		)
+};
+
+/**
+ * Units waiting for this stage whose latest entry was made at this station, most recently
+ * changed first (`unit.last_station_id` is kept by a trigger on the history; one index range).
+ */
 export function inWorkAt(db: DbOrTx, stationId: number, states: readonly string[]) {
-	return db
-		.select({
-			serial: unit.serial,
-			originalTag: unit.originalTag,
-			state: unit.state,
-			held: unit.held,
-			holdReason: unit.holdReason,
-			model: turboModel.code,
-			lot: coreLot.code,
-			priority: unit.priority,
-			stateSince: unit.stateSince,
-			version: unit.version
-		})
-		.from(unit)
-		.innerJoin(unitEvent, and(eq(unitEvent.unitId, unit.id), eq(unitEvent.seq, unit.version)))
-		.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
-		.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-		.where(and(eq(unitEvent.stationId, stationId), inArray(unit.state, states as never[])))
-		.orderBy(desc(unitEvent.at))
-		.limit(100)
-		.all()
+	if (states.length < 1 || states.length > 2) throw new Error('a stage takes units in one or two states');
+	return q
+		.inWork(db)
+		.all({ stationId, s1: states[0], s2: states[1] ?? states[0] })
 		.map((r) => ({ ...r, stateSince: r.stateSince.toISOString() }));
 }
 
 export function stationBoard(db: DbOrTx, code: string, now: Date = new Date()): Board | null {
-	const view = getStation(db, code);
-	if (!view) return null;
-	const row = db.select({ id: station.id }).from(station).where(eq(station.code, code)).get()!;
+	const row = q.station(db).get({ code });
+	if (!row) return null;
+	const view = toStationView(row);
 	const inWork = inWorkAt(db, row.id, STAGE_INFO[view.stage].input);
 	const busy = new Set(inWork.map((u) => u.serial));
 	const queue = stationQueue(db, view.stage);
 	const waitingItems = queue.items.filter((q) => !busy.has(q.serial));
 	const since = startOfDay(now);
-	const doneRows = db
-		.select({ serial: unit.serial, action: unitEvent.action, toState: unitEvent.toState, at: unitEvent.at, by: user.name, seq: unitEvent.seq })
-		.from(unitEvent)
-		.innerJoin(unit, eq(unit.id, unitEvent.unitId))
-		.leftJoin(user, eq(user.id, unitEvent.userId))
-		.where(and(eq(unitEvent.stationId, row.id), gte(unitEvent.at, since)))
-		.orderBy(desc(unitEvent.at), desc(unitEvent.id))
-		.limit(100)
-		.all();
-	const doneTotal =
-		db
-			.select({ n: sql<number>`count(*)` })
-			.from(unitEvent)
-			.where(and(eq(unitEvent.stationId, row.id), gte(unitEvent.at, since)))
-			.get()?.n ?? 0;
+	const doneRows = q.done(db).all({ stationId: row.id, since: since.getTime() });
+	const doneTotal = q.doneCount(db).get({ stationId: row.id, since: since.getTime() })?.n ?? 0;
 	return {
 		station: view,
 		waiting: { items: waitingItems.map((q) => toBoardUnit(q, view.overdueHours, now)), total: Math.max(0, queue.total - inWork.length) },

@@ -1,11 +1,16 @@
 /** Facts about a customer's unit for the guards: is it one, and what became of its quote. */
-import { desc, eq } from 'drizzle-orm';
+import { desc, eq, sql } from 'drizzle-orm';
 import type { UnitFacts } from '../domain/units/guards';
 import type { DbOrTx } from './db';
+import { prepared } from './db/prepared';
 import { quote, rebuildOrder, type Unit } from './db/schema';
 
+/** The rebuild order a unit belongs to, if any (asked on every move that may notify). */
+export const orderOfUnit = (d: DbOrTx) =>
+	prepared(d, 'rebuild.orderOfUnit', (d) => d.select().from(rebuildOrder).where(eq(rebuildOrder.unitId, sql.placeholder('unitId'))).prepare());
+
 export function customerQuoteFacts(tx: DbOrTx, unitRow: Unit): Partial<UnitFacts> {
-	const order = tx.select({ id: rebuildOrder.id }).from(rebuildOrder).where(eq(rebuildOrder.unitId, unitRow.id)).get();
+	const order = orderOfUnit(tx).get({ unitId: unitRow.id });
 	if (!order) return { customerUnit: false, quoteApproved: null, quoteDeclined: false };
 	const latest = tx
 		.select({ status: quote.status })

@@ -8,8 +8,9 @@ import { noticeForMove, type NoticeKind } from '../domain/customer/progress';
 import { formatMoney } from '../domain/customer/quote';
 import type { UnitState } from '../domain/units/states';
 import type { DbOrTx } from './db';
-import { quote, rebuildOrder, shipment, shipmentUnit, unit, type RebuildOrder, type Unit } from './db/schema';
+import { quote, shipment, shipmentUnit, unit, type RebuildOrder, type Unit } from './db/schema';
 import { enqueueMail } from './outbox';
+import { orderOfUnit } from './rebuild-facts';
 import { getRebuildSettings } from './rebuild-settings';
 
 const WANTS: Record<NoticeKind, keyof RebuildOrder> = {
@@ -46,7 +47,7 @@ export function queueNotice(
 export function afterUnitMove(tx: DbOrTx, unitRow: Unit, action: string, to: UnitState, now: Date): void {
 	const kind = noticeForMove(action, to);
 	if (!kind) return;
-	const order = tx.select().from(rebuildOrder).where(eq(rebuildOrder.unitId, unitRow.id)).get();
+	const order = orderOfUnit(tx).get({ unitId: unitRow.id });
 	if (!order) return;
 	const extra: Partial<NoticeFacts> = {};
 	if (kind === 'shipped') {

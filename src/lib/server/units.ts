@@ -11,6 +11,7 @@ import { formatSerial, normalizeSerial } from '../domain/units/serial';
 import { STAGE_INFO, nextStage, type Stage, type UnitState } from '../domain/units/states';
 import type { Db, DbOrTx, Tx } from './db';
 import { coreLot, counter, station, supplier, turboModel, unit, unitEvent, user, type Unit } from './db/schema';
+import { prepared } from './db/prepared';
 import { publish } from './live';
 import { loadFacts } from './unit-facts';
 import { afterUnitMove } from './rebuild-notify';
@@ -108,8 +109,63 @@ function toUnitView(r: UnitViewRow): UnitView {
 	};
 }
 
+const ph = sql.placeholder;
+
+/** The hot path's statements, prepared once per connection (see db/prepared.ts). */
+const q = {
+	viewBySerial: (d: DbOrTx) => prepared(d, 'units.viewBySerial', (d) => unitViewQuery(d).where(eq(unit.serial, ph('serial'))).prepare()),
+	rowBySerial: (d: DbOrTx) => prepared(d, 'units.rowBySerial', (d) => d.select().from(unit).where(eq(unit.serial, ph('serial'))).prepare()),
+	stationByCode: (d: DbOrTx) => prepared(d, 'units.stationByCode', (d) => d.select().from(station).where(eq(station.code, ph('code'))).prepare()),
+	eventById: (d: DbOrTx) => prepared(d, 'units.eventById', (d) => eventViewQuery(d).where(eq(unitEvent.id, ph('id'))).prepare()),
+	history: (d: DbOrTx) => prepared(d, 'units.history', (d) => eventViewQuery(d).where(eq(unitEvent.unitId, ph('unitId'))).orderBy(asc(unitEvent.seq)).prepare()),
+	priorByKey: (d: DbOrTx) =>
+		prepared(d, 'units.priorByKey', (d) =>
+			d
+				.select({ event: unitEvent, serial: unit.serial })
+				.from(unitEvent)
+				.innerJoin(unit, eq(unit.id, unitEvent.unitId))
+				.where(eq(unitEvent.idempotencyKey, ph('key')))
+				.prepare()
+		),
+	insertEvent: (d: DbOrTx) =>
+		prepared(d, 'units.insertEvent', (d) =>
+			d
+				.insert(unitEvent)
+				.values({
+					unitId: ph('unitId'),
+					seq: ph('seq'),
+					fromState: ph('fromState'),
+					toState: ph('toState'),
+					action: ph('action'),
+					stationId: ph('stationId'),
+					userId: ph('userId'),
+					at: ph('at'),
+					idempotencyKey: ph('idempotencyKey'),
+					note: ph('note'),
+					data: ph('data')
+				})
+				.returning({ id: unitEvent.id })
+				.prepare()
+		),
+	updateState: (d: DbOrTx) =>
+		prepared(d, 'units.updateState', (d) =>
+			d
+				.update(unit)
+				.set({
+					state: sql`${ph('state')}`,
+					held: sql`${ph('held')}`,
+					holdReason: sql`${ph('holdReason')}`,
+					version: sql`${ph('version')}`,
+					stateSince: sql`${ph('stateSince')}`,
+					updatedAt: sql`${ph('updatedAt')}`
+				})
+				.where(and(eq(unit.id, ph('id')), eq(unit.version, ph('expectedVersion'))))
+				.prepare()
+		)
+};
+
 export function findUnitView(db: DbOrTx, serial: string): UnitView | null {
-	const row = unitViewQuery(db).where(eq(unit.serial, serial)).get();
+	const row = q.viewBySerial(db).get({ serial });
 	return row ? toUnitView(row) : null;
 }
 
@@ -146,11 +202,11 @@ function toEventView(r: {
 }
 
 export function unitHistory(db: DbOrTx, unitId: number): EventView[] {
-	return eventViewQuery(db).where(eq(unitEvent.unitId, unitId)).orderBy(asc(unitEvent.seq)).all().map(toEventView);
+	return q.history(db).all({ unitId }).map(toEventView);
 }
 
 export function getUnitWithHistory(db: DbOrTx, serial: string): { unit: UnitView; history: EventView[] } | null {
-	const row = unitViewQuery(db).where(eq(unit.serial, serial)).get();
+	const row = q.viewBySerial(db).get({ serial });
 	if (!row) return null;
 	return { unit: toUnitView(row), history: unitHistory(db, row.unit.id) };
 }
@@ -207,12 +263,7 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 	}
 	function moveBody(tx: Tx): MoveResult {
 		{
-			const prior = tx
-				.select({ event: unitEvent, serial: unit.serial })
-				.from(unitEvent)
-				.innerJoin(unit, eq(unit.id, unitEvent.unitId))
-				.where(eq(unitEvent.idempotencyKey, input.idempotencyKey))
-				.get();
+			const prior = q.priorByKey(tx).get({ key: input.idempotencyKey });
 			if (prior) {
 				if (prior.serial !== input.serial || prior.event.action !== input.action) {
 					return {
@@ -223,16 +274,16 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 					};
 				}
 				const view = findUnitView(tx, input.serial)!;
-				const ev = eventViewQuery(tx).where(eq(unitEvent.id, prior.event.id)).get()!;
+				const ev = q.eventById(tx).get({ id: prior.event.id })!;
 				return { ok: true, status: 200, replayed: true, unit: view, event: toEventView(ev) };
 			}
 
-			const row = tx.select().from(unit).where(eq(unit.serial, input.serial)).get();
+			const row = q.rowBySerial(tx).get({ serial: input.serial });
 			if (!row) return { ok: false, status: 404, code: 'not_found', message: `No unit ${input.serial} in the shop.` };
 
 			let stationRow: typeof station.$inferSelect | undefined;
 			if (input.stationCode) {
-				stationRow = tx.select().from(station).where(eq(station.code, input.stationCode)).get();
+				stationRow = q.stationByCode(tx).get({ code: input.stationCode });
 				if (!stationRow || !stationRow.active) {
 					return {
 						ok: false,
@@ -270,38 +321,32 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 			}
 
 			const seq = row.version + 1;
-			const inserted = tx
-				.insert(unitEvent)
-				.values({
-					unitId: row.id,
-					seq,
-					fromState: decision.from,
-					toState: decision.to,
-					action: input.action,
-					stationId: stationRow?.id ?? null,
-					userId: actor.id,
-					at: now,
-					idempotencyKey: input.idempotencyKey,
-					note: input.note?.trim() || null,
-					data: Object.keys(decision.data).length ? decision.data : null
-				})
-				.returning({ id: unitEvent.id })
-				.get();
-			const updated = tx
-				.update(unit)
-				.set({
-					state: decision.to,
-					held: decision.held,
-					holdReason: decision.holdReason,
-					version: seq,
-					stateSince: decision.to !== row.state ? now : row.stateSince,
-					updatedAt: now
-				})
-				.where(and(eq(unit.id, row.id), eq(unit.version, row.version)))
-				.run();
+			const inserted = q.insertEvent(tx).get({
+				unitId: row.id,
+				seq,
+				fromState: decision.from,
+				toState: decision.to,
+				action: input.action,
+				stationId: stationRow?.id ?? null,
+				userId: actor.id,
+				at: now,
+				idempotencyKey: input.idempotencyKey,
+				note: input.note?.trim() || null,
+				data: Object.keys(decision.data).length ? decision.data : null
+			})!;
+			const updated = q.updateState(tx).run({
+				state: decision.to,
+				held: decision.held ? 1 : 0,
+				holdReason: decision.holdReason,
+				version: seq,
+				stateSince: (decision.to !== row.state ? now : row.stateSince).getTime(),
+				updatedAt: now.getTime(),
+				id: row.id,
+				expectedVersion: row.version
+			});
 			if (updated.changes !== 1) throw new Error(`lost update on ${row.serial}`);
 			afterUnitMove(tx, row, input.action, decision.to, now);
-			const ev = eventViewQuery(tx).where(eq(unitEvent.id, inserted.id)).get()!;
+			const ev = q.eventById(tx).get({ id: inserted.id })!;
 			return { ok: true, status: 201, replayed: false, unit: current(), event: toEventView(ev) };
 		}
 	}
@@ -455,9 +500,9 @@ export function scanAtStation(
 			fields: { serial: ['Not a shop serial.'] }
 		};
 	}
-	const stationRow = db.select().from(station).where(eq(station.code, stationCode)).get();
+	const stationRow = q.stationByCode(db).get({ code: stationCode });
 	if (!stationRow) return { ok: false, status: 404, code: 'not_found', message: `No station ${stationCode}.` };
-	const row = db.select().from(unit).where(eq(unit.serial, serial)).get();
+	const row = q.rowBySerial(db).get({ serial });
 	if (!row) return { ok: false, status: 404, code: 'not_found', message: `No unit ${serial} in the shop.` };
 	const action = mainAction(stationRow.stage, row.state) ?? stageAction(stationRow.stage);
 	if (stationRow.stage === 'teardown' && row.state === 'inspected' && !row.held) {

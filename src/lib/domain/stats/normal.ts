@@ -75,6 +75,12 @@ export function normalQuantile(p: number): number {
 }
 
 /** The two-sided critical value for a confidence level, e.g. 0.95 → 1.959964. */
+const zMemo = new Map<number, number>();
 export function zFor(confidence: number): number {
-	return normalQuantile(1 - (1 - confidence) / 2);
+	let z = zMemo.get(confidence);
+	if (z === undefined) {
+		z = normalQuantile(1 - (1 - confidence) / 2);
+		if (zMemo.size < 64) zMemo.set(confidence, z);
+	}
+	return z;
 }

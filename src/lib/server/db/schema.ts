@@ -3,7 +3,7 @@
  * Times are stored as integer milliseconds since the epoch unless the column says otherwise.
  */
 import { sql } from 'drizzle-orm';
-import { index, integer, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
 import { ROLES } from '../../domain/auth/roles';
 import { STAGES, UNIT_STATES } from '../../domain/units/states';
 import { ACTIONS } from '../../domain/units/actions';
@@ -114,15 +114,72 @@ export const unit = sqliteTable(
 		createdAt: createdAt(),
 		updatedAt: integer('updated_at', { mode: 'timestamp_ms' }).notNull(),
 		/** A warranty return points at the unit it is a return of (the serial that was shipped). */
-		returnOfUnitId: integer('return_of_unit_id').references((): AnySQLiteColumn => unit.id, { onDelete: 'restrict' })
+		returnOfUnitId: integer('return_of_unit_id').references((): AnySQLiteColumn => unit.id, { onDelete: 'restrict' }),
+		/**
+		 * Kept by database triggers from the unit's history (never written by the services): the
+		 * minutes recorded on its inspect / accept / scrap entries, and the reason of its latest
+		 * scrap entry ('(none)' when that entry gave none; null when it was never scrapped).
+		 */
+		verdictLabourMinutes: real('verdict_labour_minutes').notNull().default(0),
+		scrapReasonCode: text('scrap_reason_code'),
+		/** Kept by a trigger: the station of the unit's latest history entry (what "in work here" reads). */
+		lastStationId: integer('last_station_id').references((): AnySQLiteColumn => station.id, { onDelete: 'set null' })
 	},
 	(t) => [
 		index('unit_board_idx').on(t.state, t.held, t.priority, t.stateSince),
 		index('unit_lot_idx').on(t.lotId, t.state),
 		index('unit_model_idx').on(t.modelId, t.state),
 		index('unit_tag_idx').on(t.originalTag),
-		index('unit_lot_model_state_idx').on(t.lotId, t.modelId, t.state)
+		index('unit_lot_model_state_idx').on(t.lotId, t.modelId, t.state),
+		/** A station's queue without a card: the oldest first, read in index order. */
+		index('unit_queue_idx').on(t.state, t.stateSince),
+		index('unit_last_station_idx').on(t.lastStationId, t.state)
 	]
+);
+
+/**
+ * Per lot and model: how many units, how many still wait for their verdict, how many are
+ * scrapped and the verdict labour on those. Kept by triggers on `unit` in the same transaction
+ * as every change (drizzle/0010 and 0011), so the scrap report reads a few thousand rows instead
+ * of the whole history. tests/integration/lot-tally.test.ts checks it against a recount.
+ */
+export const lotTally = sqliteTable(
+	'lot_tally',
+	{
+		lotId: integer('lot_id')
+			.notNull()
+			.references(() => coreLot.id, { onDelete: 'cascade' }),
+		modelId: integer('model_id')
+			.notNull()
+			.references(() => turboModel.id, { onDelete: 'cascade' }),
+		received: integer('received').notNull().default(0),
+		waiting: integer('waiting').notNull().default(0),
+		scrapped: integer('scrapped').notNull().default(0),
+		scrapLabourMinutes: real('scrap_labour_minutes').notNull().default(0)
+	},
+	(t) => [primaryKey({ columns: [t.lotId, t.modelId] })]
+);
+
+/** Units per state, kept by triggers on `unit` (drizzle/0013): a queue's length without counting it. */
+export const stateTally = sqliteTable('state_tally', {
+	state: text('state', { enum: UNIT_STATES }).primaryKey(),
+	units: integer('units').notNull().default(0)
+});
+
+/** Scrapped units per lot, model and scrap reason (the reason of each unit's latest scrap entry). */
+export const lotScrapReasonTally = sqliteTable(
+	'lot_scrap_reason_tally',
+	{
+		lotId: integer('lot_id')
+			.notNull()
+			.references(() => coreLot.id, { onDelete: 'cascade' }),
+		modelId: integer('model_id')
+			.notNull()
+			.references(() => turboModel.id, { onDelete: 'cascade' }),
+		reasonCode: text('reason_code').notNull(),
+		units: integer('units').notNull().default(0)
+	},
+	(t) => [primaryKey({ columns: [t.lotId, t.modelId, t.reasonCode] })]
 );
 
 export const unitEvent = sqliteTable(

@@ -1,21 +1,21 @@
 /**
- * Scrap per core lot: counts per lot straight from the unit rows (the unit row is the cache of
- * its history, so its state says whether the verdict is in), scrap reasons from each scrapped
- * unit's last scrap event, labour before the verdict from the optional `labourMinutes` of the
- * inspect / accept / scrap events. All aggregation happens in SQL; the statistics on top are
- * the pure functions in `domain/stats`.
+ * Scrap per core lot. The counts come from `lot_tally` and `lot_scrap_reason_tally`, which the
+ * database keeps per lot and model in the same transaction as every change to a unit or its
+ * history (drizzle/0011): units per state class, scrapped units by the reason of their latest
+ * scrap entry, and the labour recorded before the verdict (the optional `labourMinutes` of the
+ * inspect / accept / scrap entries) on the scrapped ones. All aggregation happens in SQL; the
+ * statistics on top are the pure functions in `domain/stats`.
  */
-import { and, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
+import { and, eq, gt, gte, lte, sql, type SQL, type SQLWrapper } from 'drizzle-orm';
 import { labourCents } from '../../domain/stats/money';
 import { pChart, type PChartSignal } from '../../domain/stats/p-chart';
 import { wilsonInterval } from '../../domain/stats/proportion';
 import type { DbOrTx } from '../db';
-import { jsonPositiveNumber, jsonText } from '../db/report-sql';
-import { coreLot, scrapReason, supplier, turboModel, unit, unitEvent, type LotSource } from '../db/schema';
+import { coreLot, lotScrapReasonTally, lotTally, scrapReason, supplier, turboModel, type LotSource } from '../db/schema';
 import type { ReportFilter } from './filter';
 import { labourRateCents } from './settings';
 
-/** States in which a unit still waits for its teardown verdict. */
+/** States in which a unit still waits for its teardown verdict (the tally triggers in drizzle/0011 use the same lists). */
 export const WAITING_STATES = ['received', 'inspected'] as const;
 /** Moves whose `labourMinutes` count as labour before the verdict. */
 export const VERDICT_LABOUR_ACTIONS = ['inspect', 'accept', 'scrap'] as const;
@@ -95,51 +95,16 @@ function modelId(db: DbOrTx, code: string | undefined): number | null | undefine
 	return db.select({ id: turboModel.id }).from(turboModel).where(eq(turboModel.code, code)).get()?.id ?? null;
 }
 
-const isWaiting = sql`${unit.state} in ('received', 'inspected')`;
-const isScrapped = sql`${unit.state} = 'scrapped'`;
-
-/** The last scrap event of each unit (a scrap could in principle be undone and made again). */
-function lastScrapEvents(db: DbOrTx) {
-	return db
-		.select({ unitId: unitEvent.unitId, eventId: sql<number>`max(${unitEvent.id})`.as('event_id') })
-		.from(unitEvent)
-		.where(eq(unitEvent.action, 'scrap'))
-		.groupBy(unitEvent.unitId)
-		.as('last_scrap');
-}
-
 export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 	const mId = modelId(db, filter.model);
 	const rate = labourRateCents(db);
 	const lotWhere = lotConditions(filter);
-	const unitJoin = mId === undefined ? eq(unit.lotId, coreLot.id) : and(eq(unit.lotId, coreLot.id), eq(unit.modelId, mId ?? -1));
 	const empty = mId === null; // a model code that does not exist matches nothing
 
-	// One pass over the units, grouped by lot and model (covering index); lots and models are
-	// then summed from these few thousand rows.
-	const tallies = empty
-		? []
-		: db
-				.select({
-					lotId: unit.lotId,
-					modelId: unit.modelId,
-					received: sql<number>`count(*)`,
-					waiting: sql<number>`sum(case when ${isWaiting} then 1 else 0 end)`,
-					scrapped: sql<number>`sum(case when ${isScrapped} then 1 else 0 end)`
-				})
-				.from(unit)
-				.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-				.where(and(...lotWhere, ...(mId !== undefined ? [eq(unit.modelId, mId ?? -1)] : [])))
-				.groupBy(unit.lotId, unit.modelId)
-				.all();
-	const perLot = new Map<number, { received: number; waiting: number; scrapped: number }>();
-	for (const t of tallies) {
-		const p = perLot.get(t.lotId) ?? { received: 0, waiting: 0, scrapped: 0 };
-		p.received += t.received;
-		p.waiting += t.waiting;
-		p.scrapped += t.scrapped;
-		perLot.set(t.lotId, p);
-	}
+	// The per-lot-and-model tallies the database keeps (drizzle/0011): a few thousand rows, not
+	// the history, summed per lot here and per model below.
+	const modelWhere = mId !== undefined ? [eq(lotTally.modelId, mId ?? -1)] : [];
+	const sum = (col: SQLWrapper) => sql<number>`coalesce(sum(${col}), 0)`.mapWith(Number);
 	const counts = empty
 		? []
 		: db
@@ -150,45 +115,31 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 					source: coreLot.source,
 					supplierId: coreLot.supplierId,
 					supplier: supplier.name,
-					costPerCoreCents: coreLot.costPerCoreCents
+					costPerCoreCents: coreLot.costPerCoreCents,
+					received: sum(lotTally.received),
+					waiting: sum(lotTally.waiting),
+					scrapped: sum(lotTally.scrapped),
+					minutes: sum(lotTally.scrapLabourMinutes)
 				})
 				.from(coreLot)
 				.leftJoin(supplier, eq(supplier.id, coreLot.supplierId))
+				.leftJoin(lotTally, and(eq(lotTally.lotId, coreLot.id), ...modelWhere))
 				.where(lotWhere.length ? and(...lotWhere) : undefined)
+				.groupBy(coreLot.id)
+				.having(mId === undefined ? undefined : sql`coalesce(sum(${lotTally.received}), 0) > 0`)
 				.orderBy(coreLot.receivedOn, coreLot.id)
-				.all()
-				.map((l) => ({ ...l, ...(perLot.get(l.id) ?? { received: 0, waiting: 0, scrapped: 0 }) }))
-				.filter((r) => mId === undefined || r.received > 0);
+				.all();
 
-	const unitWhere = [...lotWhere, isScrapped, ...(mId !== undefined ? [eq(unit.modelId, mId ?? -1)] : [])];
-
-	// Labour recorded before the verdict on the scrapped units, per lot.
-	const labour = new Map<number, number>();
-	const labourByModel = new Map<number, number>();
-	for (const r of db
-		.select({ lotId: unit.lotId, modelId: unit.modelId, minutes: sql<number>`sum(${jsonPositiveNumber(unitEvent.data, 'labourMinutes')})` })
-		.from(unitEvent)
-		.innerJoin(unit, eq(unit.id, unitEvent.unitId))
-		.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-		.where(and(inArray(unitEvent.action, [...VERDICT_LABOUR_ACTIONS]), ...unitWhere))
-		.groupBy(unit.lotId, unit.modelId)
-		.all()) {
-		labour.set(r.lotId, (labour.get(r.lotId) ?? 0) + (r.minutes ?? 0));
-		labourByModel.set(r.modelId, (labourByModel.get(r.modelId) ?? 0) + (r.minutes ?? 0));
-	}
-
-	// Scrap reasons per lot, from each scrapped unit's last scrap event.
-	const last = lastScrapEvents(db);
-	const reasonCode = sql<string>`coalesce(${jsonText(unitEvent.data, 'reasonCode')}, '(none)')`;
-	const reasonRows = db
-		.select({ lotId: unit.lotId, code: reasonCode.as('code'), count: sql<number>`count(*)` })
-		.from(last)
-		.innerJoin(unitEvent, eq(unitEvent.id, last.eventId))
-		.innerJoin(unit, eq(unit.id, last.unitId))
-		.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-		.where(and(...unitWhere))
-		.groupBy(unit.lotId, sql`code`)
-		.all();
+	// Scrap reasons per lot, from each scrapped unit's latest scrap entry.
+	const reasonRows = empty
+		? []
+		: db
+				.select({ lotId: lotScrapReasonTally.lotId, code: lotScrapReasonTally.reasonCode, count: sql<number>`sum(${lotScrapReasonTally.units})` })
+				.from(lotScrapReasonTally)
+				.innerJoin(coreLot, eq(coreLot.id, lotScrapReasonTally.lotId))
+				.where(and(...lotWhere, ...(mId !== undefined ? [eq(lotScrapReasonTally.modelId, mId ?? -1)] : []), gt(lotScrapReasonTally.units, 0)))
+				.groupBy(lotScrapReasonTally.lotId, lotScrapReasonTally.reasonCode)
+				.all();
 	const labels = new Map(db.select({ code: scrapReason.code, label: scrapReason.label }).from(scrapReason).all().map((r) => [r.code, r.label]));
 	const label = (code: string) => labels.get(code) ?? (code === '(none)' ? 'No reason recorded' : code);
 	const reasonsByLot = new Map<number, { code: string; label: string; count: number }[]>();
@@ -204,7 +155,7 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 	const base = counts.map((c) => {
 		const judged = c.received - c.waiting;
 		const accepted = judged - c.scrapped;
-		const minutes = labour.get(c.id) ?? 0;
+		const minutes = c.minutes;
 		const labourCost = labourCents(minutes, rate);
 		const scrapCost = c.scrapped * c.costPerCoreCents + labourCost;
 		const lotCost = c.received * c.costPerCoreCents + labourCost;
@@ -218,12 +169,12 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 		const shopWhere = lotConditions(rest);
 		const shop = db
 			.select({
-				judged: sql<number>`coalesce(sum(case when ${isWaiting} then 0 else 1 end), 0)`,
-				scrapped: sql<number>`coalesce(sum(case when ${isScrapped} then 1 else 0 end), 0)`
+				judged: sql<number>`coalesce(sum(${lotTally.received} - ${lotTally.waiting}), 0)`,
+				scrapped: sql<number>`coalesce(sum(${lotTally.scrapped}), 0)`
 			})
-			.from(unit)
-			.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-			.where(and(...shopWhere, ...(mId !== undefined ? [eq(unit.modelId, mId ?? -1)] : [])))
+			.from(lotTally)
+			.innerJoin(coreLot, eq(coreLot.id, lotTally.lotId))
+			.where(and(...shopWhere, ...modelWhere))
 			.get();
 		standard = shop && shop.judged ? shop.scrapped / shop.judged : null;
 	}
@@ -281,20 +232,27 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 		return [...m.values()].map((g) => ({ ...g, scrap: rateCI(g.scrapped, g.judged) })).sort((a, b) => a.label.localeCompare(b.label));
 	};
 
-	const lotCost = new Map(counts.map((l) => [l.id, l.costPerCoreCents]));
 	const modelCodes = new Map(db.select({ id: turboModel.id, code: turboModel.code }).from(turboModel).all().map((m) => [m.id, m.code]));
-	const modelAgg = new Map<number, { judged: number; scrapped: number; scrapCore: number }>();
-	for (const t of tallies) {
-		const m = modelAgg.get(t.modelId) ?? { judged: 0, scrapped: 0, scrapCore: 0 };
-		m.judged += t.received - t.waiting;
-		m.scrapped += t.scrapped;
-		m.scrapCore += t.scrapped * (lotCost.get(t.lotId) ?? 0);
-		modelAgg.set(t.modelId, m);
-	}
-	const byModel: Breakdown[] = [...modelAgg.entries()]
-		.map(([id, r]) => {
-			const code = modelCodes.get(id) ?? String(id);
-			return { key: code, label: code, judged: r.judged, scrapped: r.scrapped, scrap: rateCI(r.scrapped, r.judged), scrapCostCents: r.scrapCore + labourCents(labourByModel.get(id) ?? 0, rate) };
+	const modelRows = empty
+		? []
+		: db
+				.select({
+					modelId: lotTally.modelId,
+					judged: sum(sql`${lotTally.received} - ${lotTally.waiting}`),
+					scrapped: sum(lotTally.scrapped),
+					scrapCore: sum(sql`${lotTally.scrapped} * ${coreLot.costPerCoreCents}`),
+					minutes: sum(lotTally.scrapLabourMinutes)
+				})
+				.from(lotTally)
+				.innerJoin(coreLot, eq(coreLot.id, lotTally.lotId))
+				.where(and(...lotWhere, ...modelWhere))
+				.groupBy(lotTally.modelId)
+				.having(sql`sum(${lotTally.received}) > 0`)
+				.all();
+	const byModel: Breakdown[] = modelRows
+		.map((r) => {
+			const code = modelCodes.get(r.modelId) ?? String(r.modelId);
+			return { key: code, label: code, judged: r.judged, scrapped: r.scrapped, scrap: rateCI(r.scrapped, r.judged), scrapCostCents: r.scrapCore + labourCents(r.minutes, rate) };
 		})
 		.sort((a, b) => a.label.localeCompare(b.label));
 
