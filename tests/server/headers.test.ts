@@ -4,6 +4,7 @@
  * and the cross-site checks on posts.
  */
 import { createHash } from 'node:crypto';
+import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { EXPECTED } from '../access/matrix';
 import { Client, cleanup, DEMO_PEOPLE, ensureBuilt, freshDemoDb, signedIn, startServer, type Reply, type RunningServer } from '../helpers/server';
@@ -13,11 +14,22 @@ let server: RunningServer;
 let dir: string;
 let owner: Client;
 let anon: Client;
+/** Codes read from the demo database: its lot codes carry the day it was seeded. */
+let fixtures: { serial: string; stationCode: string; lotCode: string; modelCode: string };
 
 beforeAll(async () => {
 	await ensureBuilt();
 	const db = await freshDemoDb();
 	dir = db.dir;
+	const conn = new Database(db.file, { readonly: true });
+	const one = (sql: string) => (conn.prepare(sql).get() as { code: string }).code;
+	fixtures = {
+		serial: one(`select serial as code from unit order by id limit 1`),
+		stationCode: 'WASH',
+		lotCode: one(`select code from core_lot order by id limit 1`),
+		modelCode: one(`select code from turbo_model order by id limit 1`)
+	};
+	conn.close();
 	server = await startServer(db.file, PORT);
 	owner = await signedIn(server.origin, 'owner');
 	anon = new Client(server.origin);
@@ -77,7 +89,7 @@ function expectOnlyAllowedScripts(r: Reply, what: string) {
 
 describe('headers on real responses', () => {
 	test('every page the owner can open: CSP with a fresh nonce, nosniff, referrer policy, no framing', async () => {
-		const f = { serial: 'SY-00001', stationCode: 'WASH', lotCode: 'L260922-01', modelCode: 'CH-F46' };
+		const f = fixtures;
 		const pages = Object.entries(EXPECTED)
 			.filter(([id, e]) => !id.startsWith('/api/') && e.checks.some((c) => c.method === 'GET' && c.answers.owner === 'ok'))
 			.map(([, e]) => e.path(f, 'owner'));
