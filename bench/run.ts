@@ -98,17 +98,35 @@ async function firstWorking(paths: string[], cookie: string): Promise<string | n
 	return null;
 }
 
-/** The station move a scan makes for a unit waiting in each state (moves that need no record first). */
-const SCAN_MOVE: Record<string, { action: string; station: string }> = {
-	received: { action: 'inspect', station: 'TEARDOWN-1' },
-	accepted: { action: 'clean', station: 'WASH' },
-	cleaned: { action: 'machine', station: 'LATHE-B' },
-	machined: { action: 'paint', station: 'PAINT' },
-	painted: { action: 'hold', station: 'BUILD-1' }
+/**
+ * The station move a scan makes for a unit in each state (moves that need no record first).
+ * A unit walks on through these; once it has no such move left it is held and released in
+ * turn at its station, so a run never runs out of real moves however fast the server is.
+ */
+const SCAN_MOVE: Record<string, { action: string; station: string; to: string }> = {
+	received: { action: 'inspect', station: 'TEARDOWN-1', to: 'inspected' },
+	accepted: { action: 'clean', station: 'WASH', to: 'cleaned' },
+	cleaned: { action: 'machine', station: 'LATHE-B', to: 'machined' },
+	machined: { action: 'paint', station: 'PAINT', to: 'painted' }
 };
+const HOLD_STATION: Record<string, string> = { inspected: 'TEARDOWN-1', painted: 'BUILD-1' };
+
+type PoolUnit = { serial: string; state: string; held?: boolean };
+
+/** The next move for a pool unit, and the unit as it will be once the move is made. */
+function nextScan(u: PoolUnit): { action: string; station: string; data?: Record<string, unknown> } {
+	const move = SCAN_MOVE[u.state];
+	if (move && !u.held) {
+		u.state = move.to;
+		return move;
+	}
+	const station = HOLD_STATION[u.state] ?? 'BUILD-1';
+	u.held = !u.held;
+	return u.held ? { action: 'hold', station, data: { reason: 'Waiting for a wheel' } } : { action: 'release', station };
+}
 
 /** Scans fed from a pool of units waiting at stations; each scan moves one unit on. */
-function scanRequests(pool: { serial: string; state: string }[], cookie: string) {
+function scanRequests(pool: PoolUnit[], cookie: string) {
 	let next = 0;
 	let n = 0;
 	return {
@@ -117,18 +135,17 @@ function scanRequests(pool: { serial: string; state: string }[], cookie: string)
 		requests: [
 			{
 				setupRequest: (req: Record<string, unknown>) => {
-					const u = pool[next++ % pool.length];
-					const move = SCAN_MOVE[u.state];
+					const move = nextScan(pool[next++ % pool.length]);
 					n += 1;
 					return {
 						...req,
 						method: 'POST',
-						path: `/api/units/${u.serial}/events`,
+						path: `/api/units/${pool[(next - 1) % pool.length].serial}/events`,
 						body: JSON.stringify({
 							action: move.action,
 							stationCode: move.station,
 							idempotencyKey: `bench-${process.pid}-${n}`,
-							...(move.action === 'hold' ? { data: { reason: 'Waiting for a wheel' } } : {})
+							...(move.data ? { data: move.data } : {})
 						})
 					};
 				}
@@ -137,7 +154,7 @@ function scanRequests(pool: { serial: string; state: string }[], cookie: string)
 	};
 }
 
-async function liveLatency(cookie: string, pool: { serial: string; state: string }[], count = 200): Promise<{ p50: number; p95: number; max: number; missed: number }> {
+async function liveLatency(cookie: string, pool: PoolUnit[], count = 200): Promise<{ p50: number; p95: number; max: number; missed: number }> {
 	const controller = new AbortController();
 	const res = await fetch(`${BASE}/api/stream`, { headers: { cookie }, signal: controller.signal });
 	const reader = res.body!.getReader();
@@ -168,8 +185,8 @@ async function liveLatency(cookie: string, pool: { serial: string; state: string
 	await new Promise((r) => setTimeout(r, 300));
 	const acked = new Map<string, number>();
 	for (let i = 0; i < count; i++) {
-		const { serial, state } = pool[i];
-		const move = SCAN_MOVE[state];
+		const serial = pool[i].serial;
+		const move = nextScan(pool[i]);
 		const r = await fetch(`${BASE}/api/units/${serial}/events`, {
 			method: 'POST',
 			headers: { cookie, 'content-type': 'application/json' },
@@ -177,7 +194,7 @@ async function liveLatency(cookie: string, pool: { serial: string; state: string
 				action: move.action,
 				stationCode: move.station,
 				idempotencyKey: `live-${process.pid}-${i}`,
-				...(move.action === 'hold' ? { data: { reason: 'Waiting for a wheel' } } : {})
+				...(move.data ? { data: move.data } : {})
 			})
 		});
 		await r.arrayBuffer();

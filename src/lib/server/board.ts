@@ -8,7 +8,7 @@
  * verdict; elsewhere a unit held, released or undone here. It takes no extra action: the scan
  * that starts the work is the move itself.
  */
-import { and, desc, eq, gte, or, sql } from 'drizzle-orm';
+import { and, desc, eq, gte, inArray, sql } from 'drizzle-orm';
 import { ACTION_INFO, isActionName } from '../domain/units/actions';
 import { ageMs, isOverdue } from '../domain/units/stage-time';
 import { STAGE_INFO } from '../domain/units/states';
@@ -89,14 +89,23 @@ const q = {
 					lot: coreLot.code,
 					priority: unit.priority,
 					stateSince: unit.stateSince,
-					version: unit.version
+					version: unit.version,
+					updatedAt: unit.updatedAt
 				})
 				.from(unit)
 				.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
 				.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-				.where(and(eq(unit.lastStationId, ph('stationId')), or(eq(unit.state, ph('s1')), eq(unit.state, ph('s2')))))
-				.orderBy(desc(unit.updatedAt), desc(unit.id))
+				.where(and(eq(unit.lastStationId, ph('stationId')), eq(unit.state, ph('state'))))
+				.orderBy(desc(unit.updatedAt))
 				.limit(100)
+				.prepare()
+		),
+	inWorkCount: (d: DbOrTx) =>
+		prepared(d, 'board.inWorkCount', (d) =>
+			d
+				.select({ n: sql<number>`count(*)` })
+				.from(unit)
+				.where(and(eq(unit.lastStationId, ph('stationId')), inArray(unit.state, [ph('s1'), ph('s2')])))
 				.prepare()
 		),
 	done: (d: DbOrTx) =>
@@ -123,14 +132,16 @@ const q = {
 
 /**
  * Units waiting for this stage whose latest entry was made at this station, most recently
- * changed first (`unit.last_station_id` is kept by a trigger on the history; one index range).
+ * changed first (`unit.last_station_id` is kept by a trigger on the history): the newest
+ * hundred of each input state straight from the (last station, state, updated) index, merged.
  */
-export function inWorkAt(db: DbOrTx, stationId: number, states: readonly string[]) {
+export function inWorkAt(db: DbOrTx, stationId: number, states: readonly string[], limit = 100) {
 	if (states.length < 1 || states.length > 2) throw new Error('a stage takes units in one or two states');
-	return q
-		.inWork(db)
-		.all({ stationId, s1: states[0], s2: states[1] ?? states[0] })
-		.map((r) => ({ ...r, stateSince: r.stateSince.toISOString() }));
+	const rows = states.flatMap((state) => q.inWork(db).all({ stationId, state }));
+	if (states.length > 1) rows.sort((a, b) => b.updatedAt.getTime() - a.updatedAt.getTime());
+	const items = rows.slice(0, limit).map(({ updatedAt: _u, ...r }) => ({ ...r, stateSince: r.stateSince.toISOString() }));
+	const total = rows.length < 100 ? rows.length : (q.inWorkCount(db).get({ stationId, s1: states[0], s2: states[1] ?? states[0] })?.n ?? rows.length);
+	return { items, total };
 }
 
 export function stationBoard(db: DbOrTx, code: string, now: Date = new Date()): Board | null {
@@ -138,7 +149,7 @@ export function stationBoard(db: DbOrTx, code: string, now: Date = new Date()): 
 	if (!row) return null;
 	const view = toStationView(row);
 	const inWork = inWorkAt(db, row.id, STAGE_INFO[view.stage].input);
-	const busy = new Set(inWork.map((u) => u.serial));
+	const busy = new Set(inWork.items.map((u) => u.serial));
 	const queue = stationQueue(db, view.stage);
 	const waitingItems = queue.items.filter((q) => !busy.has(q.serial));
 	const since = startOfDay(now);
@@ -146,8 +157,8 @@ export function stationBoard(db: DbOrTx, code: string, now: Date = new Date()): 
 	const doneTotal = q.doneCount(db).get({ stationId: row.id, since: since.getTime() })?.n ?? 0;
 	return {
 		station: view,
-		waiting: { items: waitingItems.map((q) => toBoardUnit(q, view.overdueHours, now)), total: Math.max(0, queue.total - inWork.length) },
-		inWork: { items: inWork.map((q) => toBoardUnit(q, view.overdueHours, now)), total: inWork.length },
+		waiting: { items: waitingItems.map((q) => toBoardUnit(q, view.overdueHours, now)), total: Math.max(0, queue.total - inWork.total) },
+		inWork: { items: inWork.items.map((q) => toBoardUnit(q, view.overdueHours, now)), total: inWork.total },
 		done: {
 			items: doneRows.map((d) => ({
 				serial: d.serial,

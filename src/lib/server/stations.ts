@@ -1,7 +1,7 @@
 /** Stations and what waits at them. */
 import { and, asc, desc, eq, gte, inArray, not, or, sql, type SQL } from 'drizzle-orm';
 import type { CardStyleKey } from '../domain/cards/card-style';
-import { cardIdForUnit } from './card-match';
+import { compareCards } from '../domain/queue-order';
 import { prepared } from './db/prepared';
 import { STAGE_INFO, STAGES, type Stage } from '../domain/units/states';
 import type { DbOrTx } from './db';
@@ -57,31 +57,22 @@ export interface QueueItem {
 }
 
 /**
- * Whether some open card takes the unit in the queue of `stage` (the cards given are the open
- * ones that can take units there), as a condition on the unit row; null when none can.
+ * What a card takes in the queue of `stage`, as a condition on the unit row (the SQL twin of
+ * `cardTakes` in src/lib/domain/queue-order.ts); null when it takes nothing there.
  */
-function takenByACard(cards: readonly (typeof priorityCard.$inferSelect)[], stage: Stage): SQL | null {
-	const parts: SQL[] = [];
-	const listed = cards.filter((c) => c.kind === 'units').map((c) => c.id);
-	if (listed.length) parts.push(inArray(unit.id, sqlUnitsOnCards(listed)));
-	for (const c of cards) {
-		if (c.kind !== 'rule') continue;
-		if (c.ruleModelId === null && c.ruleStage === null && c.ruleLotId === null) continue;
-		if (c.ruleStage !== null && c.ruleStage !== stage) continue;
-		const rule: SQL[] = [];
-		if (c.ruleModelId !== null) rule.push(eq(unit.modelId, c.ruleModelId));
-		if (c.ruleLotId !== null) rule.push(eq(unit.lotId, c.ruleLotId));
-		if (rule.length === 0) return sql`1 = 1`; // a card for the whole stage takes every unit
-		parts.push(and(...rule)!);
-	}
-	return parts.length ? or(...parts)! : null;
-}
-
-function sqlUnitsOnCards(cardIds: number[]) {
-	return sql`(select ${priorityCardUnit.unitId} from ${priorityCardUnit} where ${inArray(priorityCardUnit.cardId, cardIds)})`;
+function cardCondition(c: typeof priorityCard.$inferSelect, stage: Stage): SQL | null {
+	if (!c.open) return null;
+	if (c.kind === 'units') return inArray(unit.id, sql`(select ${priorityCardUnit.unitId} from ${priorityCardUnit} where ${priorityCardUnit.cardId} = ${c.id})`);
+	if (c.ruleModelId === null && c.ruleStage === null && c.ruleLotId === null) return null;
+	if (c.ruleStage !== null && c.ruleStage !== stage) return null;
+	const rule: SQL[] = [];
+	if (c.ruleModelId !== null) rule.push(eq(unit.modelId, c.ruleModelId));
+	if (c.ruleLotId !== null) rule.push(eq(unit.lotId, c.ruleLotId));
+	return rule.length ? and(...rule)! : sql`1 = 1`; // a card for the whole stage takes every unit
 }
 
 const queueColumns = {
+	id: unit.id,
 	serial: unit.serial,
 	originalTag: unit.originalTag,
 	state: unit.state,
@@ -108,7 +99,7 @@ const q = {
 	oldest: (d: DbOrTx) =>
 		prepared(d, 'queue.oldest', (d) =>
 			d
-				.select({ ...queueColumns, id: unit.id })
+				.select(queueColumns)
 				.from(unit)
 				.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
 				.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
@@ -121,69 +112,51 @@ const q = {
 
 /**
  * Units waiting for this station's stage, in queue order: card rank, card due date, then the
- * oldest; no card last (src/lib/domain/queue-order.ts). Two reads: the units some open card
- * takes, each with its best card (few, however long the queue), then the oldest of the rest,
- * straight from the (state, state_since) index; the length comes from `state_tally` (kept by
- * triggers) — so a queue of a hundred thousand units costs what a queue of a hundred does.
+ * oldest; no card last (src/lib/domain/queue-order.ts). The open cards are walked in board
+ * order, each read taking the oldest units that card takes and no earlier card does, until the
+ * page is full; then the oldest of the rest, straight from the (state, state_since) index. The
+ * length comes from `state_tally` (kept by triggers), so a queue of a hundred thousand units
+ * costs what a queue of a hundred does, and a card over a whole model costs one short read.
  */
 export function stationQueue(db: DbOrTx, stage: Stage, limit = 100): { items: QueueItem[]; total: number } {
 	const states = [...STAGE_INFO[stage].input];
 	const cond = inArray(unit.state, states);
 	const total = q.unitsIn(db).get({ s1: states[0], s2: states[1] ?? states[0] })?.n ?? 0;
-	const openCards = q.openCards(db).all();
-	const taken = takenByACard(openCards, stage);
-	const carded = taken
-		? db
-				.select({ ...queueColumns, cardId: priorityCard.id, cardTitle: priorityCard.title, cardStyle: priorityCard.style })
-				.from(unit)
-				.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
-				.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-				.innerJoin(priorityCard, eq(priorityCard.id, cardIdForUnit(db, stage)))
-				.where(and(cond, taken))
-				.orderBy(
-					asc(priorityCard.rank),
-					sql`${priorityCard.dueOn} is null`,
-					asc(priorityCard.dueOn),
-					asc(priorityCard.id),
-					asc(unit.stateSince),
-					asc(unit.id)
-				)
-				.limit(limit)
-				.all()
-		: [];
-	// The oldest of the rest, one index range per state, merged.
-	const want = limit - carded.length;
-	const rest =
-		want > 0
-			? states
-					.flatMap((st) =>
-						taken
-							? db
-									.select({ ...queueColumns, id: unit.id })
-									.from(unit)
-									.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
-									.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
-									.where(and(eq(unit.state, st), not(taken)))
-									.orderBy(asc(unit.stateSince), asc(unit.id))
-									.limit(want)
-									.all()
-							: q.oldest(db).all({ state: st, limit: want })
-					)
-					.sort((a, b) => a.stateSince.getTime() - b.stateSince.getTime() || a.id - b.id)
-					.slice(0, want)
-					.map(({ id: _id, ...r }) => r)
-			: [];
-	return {
-		items: [
-			...carded.map(({ cardId, cardTitle, cardStyle, ...r }) => ({
-				...r,
-				stateSince: r.stateSince.toISOString(),
-				card: { id: cardId, title: cardTitle, style: cardStyle }
-			})),
-			...rest.map((r) => ({ ...r, stateSince: r.stateSince.toISOString(), card: null }))
-		],
-		total
-	};
+	const cards = q
+		.openCards(db)
+		.all()
+		.map((card) => ({ card, takes: cardCondition(card, stage) }))
+		.filter((c): c is { card: typeof c.card; takes: SQL } => c.takes !== null)
+		.sort((a, b) => compareCards(a.card, b.card));
+	const items: QueueItem[] = [];
+	const earlier: SQL[] = [];
+	const notEarlier = () => (earlier.length ? [not(or(...earlier)!)] : []);
+	const page = (where: SQL, n: number) =>
+		db
+			.select(queueColumns)
+			.from(unit)
+			.innerJoin(turboModel, eq(turboModel.id, unit.modelId))
+			.innerJoin(coreLot, eq(coreLot.id, unit.lotId))
+			.where(where)
+			.orderBy(asc(unit.stateSince), asc(unit.id))
+			.limit(n)
+			.all();
+	for (const { card, takes } of cards) {
+		if (items.length >= limit) break;
+		for (const { id: _id, ...r } of page(and(cond, takes, ...notEarlier())!, limit - items.length))
+			items.push({ ...r, stateSince: r.stateSince.toISOString(), card: { id: card.id, title: card.title, style: card.style } });
+		earlier.push(takes);
+	}
+	// The oldest of the rest: one index range per state, merged.
+	const want = limit - items.length;
+	if (want > 0) {
+		const rest = states
+			.flatMap((st) => (earlier.length ? page(and(eq(unit.state, st), ...notEarlier())!, want) : q.oldest(db).all({ state: st, limit: want })))
+			.sort((a, b) => a.stateSince.getTime() - b.stateSince.getTime() || a.id - b.id)
+			.slice(0, want);
+		for (const { id: _id, ...r } of rest) items.push({ ...r, stateSince: r.stateSince.toISOString(), card: null });
+	}
+	return { items, total };
 }
 
 /** Moves made at a station since `since` (today's work), newest first. */

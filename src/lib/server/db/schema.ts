@@ -133,7 +133,7 @@ export const unit = sqliteTable(
 		index('unit_lot_model_state_idx').on(t.lotId, t.modelId, t.state),
 		/** A station's queue without a card: the oldest first, read in index order. */
 		index('unit_queue_idx').on(t.state, t.stateSince),
-		index('unit_last_station_idx').on(t.lastStationId, t.state)
+		index('unit_last_station_idx').on(t.lastStationId, t.state, t.updatedAt)
 	]
 );
 
