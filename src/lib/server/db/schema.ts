@@ -157,7 +157,11 @@ export const lotTally = sqliteTable(
 		scrapped: integer('scrapped').notNull().default(0),
 		scrapLabourMinutes: real('scrap_labour_minutes').notNull().default(0)
 	},
-	(t) => [primaryKey({ columns: [t.lotId, t.modelId] })]
+	(t) => [
+		primaryKey({ columns: [t.lotId, t.modelId] }),
+		// the scrap report's per-model sums read this in model order, without sorting
+		index('lot_tally_model_idx').on(t.modelId, t.lotId, t.received, t.waiting, t.scrapped, t.scrapLabourMinutes)
+	]
 );
 
 /** Units per state, kept by triggers on `unit` (drizzle/0013): a queue's length without counting it. */
@@ -179,7 +183,11 @@ export const lotScrapReasonTally = sqliteTable(
 		reasonCode: text('reason_code').notNull(),
 		units: integer('units').notNull().default(0)
 	},
-	(t) => [primaryKey({ columns: [t.lotId, t.modelId, t.reasonCode] })]
+	(t) => [
+		primaryKey({ columns: [t.lotId, t.modelId, t.reasonCode] }),
+		// the scrap report's reasons per lot read this in (lot, reason) order, without sorting
+		index('lot_scrap_reason_tally_reason_idx').on(t.lotId, t.reasonCode, t.units)
+	]
 );
 
 export const unitEvent = sqliteTable(

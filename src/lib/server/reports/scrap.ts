@@ -6,7 +6,7 @@
  * inspect / accept / scrap entries) on the scrapped ones. All aggregation happens in SQL; the
  * statistics on top are the pure functions in `domain/stats`.
  */
-import { and, eq, gt, gte, lte, sql, type SQL, type SQLWrapper } from 'drizzle-orm';
+import { and, eq, gt, gte, inArray, lte, sql, type SQL, type SQLWrapper } from 'drizzle-orm';
 import { labourCents } from '../../domain/stats/money';
 import { pChart, type PChartSignal } from '../../domain/stats/p-chart';
 import { wilsonInterval } from '../../domain/stats/proportion';
@@ -50,7 +50,7 @@ export interface LotRow {
 	ucl: number | null;
 	lcl: number | null;
 	signal: PChartSignal;
-	/** Reasons behind the scrap, most frequent first (filled for every lot). */
+	/** For a lot above the upper limit, the reasons behind its scrap, most frequent first; empty otherwise (the lot's page has them all). */
 	reasons: { code: string; label: string; count: number }[];
 }
 
@@ -130,27 +130,22 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 				.orderBy(coreLot.receivedOn, coreLot.id)
 				.all();
 
-	// Scrap reasons per lot, from each scrapped unit's latest scrap entry.
-	const reasonRows = empty
+	// Scrap reasons, from each scrapped unit's latest scrap entry: the shop's Pareto here, and
+	// per lot below for the lots above the upper limit (the reasons that drove them).
+	const reasonWhere = (extra: SQL[] = []) =>
+		and(...lotWhere, ...(mId !== undefined ? [eq(lotScrapReasonTally.modelId, mId ?? -1)] : []), gt(lotScrapReasonTally.units, 0), ...extra);
+	const reasonTotalRows = empty
 		? []
 		: db
-				.select({ lotId: lotScrapReasonTally.lotId, code: lotScrapReasonTally.reasonCode, count: sql<number>`sum(${lotScrapReasonTally.units})` })
+				.select({ code: lotScrapReasonTally.reasonCode, count: sql<number>`sum(${lotScrapReasonTally.units})` })
 				.from(lotScrapReasonTally)
 				.innerJoin(coreLot, eq(coreLot.id, lotScrapReasonTally.lotId))
-				.where(and(...lotWhere, ...(mId !== undefined ? [eq(lotScrapReasonTally.modelId, mId ?? -1)] : []), gt(lotScrapReasonTally.units, 0)))
-				.groupBy(lotScrapReasonTally.lotId, lotScrapReasonTally.reasonCode)
+				.where(reasonWhere())
+				.groupBy(lotScrapReasonTally.reasonCode)
 				.all();
 	const labels = new Map(db.select({ code: scrapReason.code, label: scrapReason.label }).from(scrapReason).all().map((r) => [r.code, r.label]));
 	const label = (code: string) => labels.get(code) ?? (code === '(none)' ? 'No reason recorded' : code);
-	const reasonsByLot = new Map<number, { code: string; label: string; count: number }[]>();
-	const reasonTotals = new Map<string, number>();
-	for (const r of reasonRows) {
-		const list = reasonsByLot.get(r.lotId) ?? [];
-		list.push({ code: r.code, label: label(r.code), count: r.count });
-		reasonsByLot.set(r.lotId, list);
-		reasonTotals.set(r.code, (reasonTotals.get(r.code) ?? 0) + r.count);
-	}
-	for (const list of reasonsByLot.values()) list.sort((a, b) => b.count - a.count || a.code.localeCompare(b.code));
+	const reasonTotals = new Map(reasonTotalRows.map((r) => [r.code, r.count]));
 
 	const base = counts.map((c) => {
 		const judged = c.received - c.waiting;
@@ -183,6 +178,23 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 		3,
 		standard
 	);
+	const flaggedIds = base.filter((_, i) => chart.points[i].signal === 'above').map((b) => b.id);
+	const reasonsByLot = new Map<number, { code: string; label: string; count: number }[]>();
+	for (let i = 0; i < flaggedIds.length; i += 500) {
+		const rows = db
+			.select({ lotId: lotScrapReasonTally.lotId, code: lotScrapReasonTally.reasonCode, count: sql<number>`sum(${lotScrapReasonTally.units})` })
+			.from(lotScrapReasonTally)
+			.innerJoin(coreLot, eq(coreLot.id, lotScrapReasonTally.lotId))
+			.where(reasonWhere([inArray(lotScrapReasonTally.lotId, flaggedIds.slice(i, i + 500))]))
+			.groupBy(lotScrapReasonTally.lotId, lotScrapReasonTally.reasonCode)
+			.all();
+		for (const r of rows) {
+			const list = reasonsByLot.get(r.lotId) ?? [];
+			list.push({ code: r.code, label: label(r.code), count: r.count });
+			reasonsByLot.set(r.lotId, list);
+		}
+	}
+	for (const list of reasonsByLot.values()) list.sort((a, b) => b.count - a.count || a.code.localeCompare(b.code));
 	const lots: LotRow[] = base.map((b, i) => {
 		const pt = chart.points[i];
 		return {
