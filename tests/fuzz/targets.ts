@@ -321,7 +321,8 @@ FUZZ_TARGETS.push(
 	formTarget('/(app)/lots/[code=code]', 'add', 'office', lotPath(), ['model', 'originalTag', 'notes']),
 	formTarget('/(app)/lots/[code=code]/import', 'preview', 'office', lotPath('/import'), ['csv', 'tagColumn', 'modelColumn', 'notesColumn']),
 	formTarget('/(app)/lots/[code=code]/import', 'import', 'office', lotPath('/import'), ['csv', 'tagColumn', 'modelColumn', 'notesColumn', 'token']),
-	formTarget('/(app)/suppliers', 'create', 'owner', () => '/suppliers', ['name', 'notes']),
+	// a supplier's name and notes are free text: most random values are valid names
+	formTarget('/(app)/suppliers', 'create', 'owner', () => '/suppliers', ['name', 'notes'], 0.5, true),
 	formTarget('/(app)/suppliers', 'update', 'owner', () => '/suppliers', ['id', 'name', 'notes', 'active']),
 
 	// a checklist's family and name are free text: most random values are valid names

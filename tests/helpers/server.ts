@@ -159,7 +159,19 @@ export class Client {
 		return [...this.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
 	}
 
-	request(method: string, path: string, options: RequestOptions = {}): Promise<Reply> {
+	async request(method: string, path: string, options: RequestOptions = {}): Promise<Reply> {
+		try {
+			return await this.once(method, path, options);
+		} catch (e) {
+			// A kept-alive socket the server closed between two requests resets on reuse; Node's http docs
+			// advise retrying then. Only reads are retried: a post is never sent twice behind a test's back.
+			const err = e as NodeJS.ErrnoException & { reusedSocket?: boolean };
+			if ((method === 'GET' || method === 'HEAD') && err.reusedSocket && err.code === 'ECONNRESET') return this.once(method, path, options);
+			throw e;
+		}
+	}
+
+	private once(method: string, path: string, options: RequestOptions): Promise<Reply> {
 		const url = new URL(path, this.origin);
 		const headers: Record<string, string> = { ...options.headers };
 		const jar = this.cookieHeader();
@@ -194,7 +206,7 @@ export class Client {
 				});
 				res.on('error', reject);
 			});
-			req.on('error', reject);
+			req.on('error', (e) => reject(Object.assign(e, { reusedSocket: req.reusedSocket })));
 			if (options.body !== undefined) req.write(options.body);
 			req.end();
 		});
