@@ -135,10 +135,10 @@ ${s.cancel_url ? `<p><a href="${esc(s.cancel_url)}">Cancel and go back</a></p>` 
 							method: 'POST',
 							headers: { 'content-type': 'application/json', 'stripe-signature': header },
 							body: payload
-						}).catch((e: unknown) => ({ ok: false, status: 0, statusText: String(e) }));
+						}).catch((e: unknown) => ({ ok: false, status: 0, statusText: `${String(e)} ${String((e as { cause?: unknown }).cause ?? '')}`.trim() }));
 						if (!delivered.ok) {
 							res.writeHead(502, { 'content-type': 'text/plain' });
-							return res.end(`Payment taken, but the shop's webhook did not accept it (${delivered.status}).`);
+							return res.end(`Payment taken, but the shop's webhook did not accept it (${delivered.status} ${delivered.statusText}).`);
 						}
 					}
 					res.writeHead(303, { location: s.success_url });
