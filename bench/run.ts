@@ -10,6 +10,7 @@ import autocannon from 'autocannon';
 import Database from 'better-sqlite3';
 import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { existsSync, readFileSync, writeFileSync, statSync } from 'node:fs';
+import { randomUUID } from 'node:crypto';
 import { cpus } from 'node:os';
 import { gzipSync } from 'node:zlib';
 import { seedLarge } from './seed';
@@ -129,6 +130,8 @@ function nextScan(u: PoolUnit): { action: string; station: string; data?: Record
 function scanRequests(pool: PoolUnit[], cookie: string) {
 	let next = 0;
 	let n = 0;
+	// keys are unique across runs: a key seen before with another body is refused as a conflict
+	const run = randomUUID().slice(0, 8);
 	return {
 		method: 'POST' as const,
 		headers: { cookie, 'content-type': 'application/json' },
@@ -144,7 +147,7 @@ function scanRequests(pool: PoolUnit[], cookie: string) {
 						body: JSON.stringify({
 							action: move.action,
 							stationCode: move.station,
-							idempotencyKey: `bench-${process.pid}-${n}`,
+							idempotencyKey: `bench-${run}-${n}`,
 							...(move.data ? { data: move.data } : {})
 						})
 					};
