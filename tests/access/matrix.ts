@@ -257,5 +257,6 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 	'/api/reports/suppliers': { path: () => '/api/reports/suppliers', checks: [{ method: 'GET', answers: only(OWNER) }] },
 	'/api/reports/flow': { path: () => '/api/reports/flow', checks: [{ method: 'GET', answers: only(STEERING) }] },
 	'/api/reports/warranty': { path: () => '/api/reports/warranty', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/warranty/parts-lots': { path: () => '/api/reports/warranty/parts-lots', checks: [{ method: 'GET', answers: only(OWNER) }] },
 	'/api/reports/warranty/[serial=serial]': { path: (f) => `/api/reports/warranty/${f.serial}`, checks: [{ method: 'GET', answers: only(OWNER) }] }
 };

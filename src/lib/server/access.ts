@@ -101,6 +101,7 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/reports/suppliers': { read: OWNER },
 	'/api/reports/flow': { read: OWNER_AND_LEAD },
 	'/api/reports/warranty': { read: OWNER },
+	'/api/reports/warranty/parts-lots': { read: OWNER },
 	'/api/reports/warranty/[serial=serial]': { read: OWNER }
 
 };

@@ -6,12 +6,13 @@
  * of the original unit: lot and supplier, teardown inspection, history with the techs at each
  * station.
  */
-import { aliasedTable, and, desc, eq, gte, inArray, isNotNull, lte, sql } from 'drizzle-orm';
+import { aliasedTable, and, desc, eq, gte, inArray, isNotNull, lte, sql, type SQL } from 'drizzle-orm';
 import { FAILURE_MODE_LABEL, isFailureMode, type FailureMode } from '../../domain/warranty/failure-modes';
+import { judgeLots, PART_KINDS, type LotCounts, type LotVerdict, type PartKind } from '../../domain/warranty/parts-lots';
 import type { Stage, UnitState } from '../../domain/units/states';
 import type { DbOrTx } from '../db';
 import { jsonText, weekOfMs } from '../db/report-sql';
-import { coreLot, supplier, turboModel, unit, unitEvent } from '../db/schema';
+import { assemblyRecord, coreLot, supplier, turboModel, unit, unitEvent } from '../db/schema';
 import { getUnitWithHistory, type EventView, type UnitView } from '../units';
 import type { ReportFilter } from './filter';
 
@@ -118,6 +119,110 @@ export function warrantyReport(db: DbOrTx, filter: Pick<ReportFilter, 'from' | '
 		byModel: tab((r) => r.model).map(({ g, ...x }) => ({ model: g, ...x })),
 		byBuildWeek: tab((r) => r.buildWeek).map(({ g, ...x }) => ({ week: g, ...x }))
 	};
+}
+
+export interface PartsLotReport {
+	/** Shipped units with an assembly record in view, how many came back, the rate and its 95 % interval. */
+	shop: { shipped: number; returned: number; rate: number | null; low: number | null; high: number | null };
+	lots: LotVerdict[];
+}
+
+/** Each unit's latest assembly record (the build it shipped as). */
+function latestAssembly(db: DbOrTx) {
+	return db
+		.select({ unitId: assemblyRecord.unitId, recordId: sql<number>`max(${assemblyRecord.id})`.as('record_id') })
+		.from(assemblyRecord)
+		.groupBy(assemblyRecord.unitId)
+		.as('latest_assembly');
+}
+
+/** Units that came back under warranty at least once: the original's id and how many returns. */
+function cameBack(db: DbOrTx) {
+	return db
+		.select({ originalId: sql<number>`${unit.returnOfUnitId}`.as('original_id'), returns: sql<number>`count(*)`.as('returns') })
+		.from(unit)
+		.where(isNotNull(unit.returnOfUnitId))
+		.groupBy(unit.returnOfUnitId)
+		.as('came_back');
+}
+
+const LOT_COLUMN: Record<PartKind, typeof assemblyRecord.bearingKitLot> = {
+	bearing_kit: assemblyRecord.bearingKitLot,
+	seal_kit: assemblyRecord.sealKitLot
+};
+
+/**
+ * Warranty returns by the bearing-kit and seal-kit lots a unit was built from (its latest
+ * assembly record), with the failure modes of the returns. The dates filter the build (the
+ * assembly record's day), so a lot's shipped units and their returns are the same cohort; the
+ * model filters the unit. Counted in SQL; the rule that flags a lot is `domain/warranty/parts-lots.ts`.
+ */
+export function partsLotReport(db: DbOrTx, filter: Pick<ReportFilter, 'from' | 'to' | 'model'> = {}): PartsLotReport {
+	const built = aliasedTable(unit, 'built');
+	const returned = aliasedTable(unit, 'returned_unit');
+	const verdictEvent = aliasedTable(unitEvent, 'verdict_event');
+	const last = latestAssembly(db);
+	const back = cameBack(db);
+	const where: SQL[] = [];
+	const builtDay = sql<string>`date(${assemblyRecord.at} / 1000, 'unixepoch')`;
+	if (filter.from) where.push(gte(builtDay, filter.from));
+	if (filter.to) where.push(lte(builtDay, filter.to));
+	if (filter.model) where.push(eq(turboModel.code, filter.model));
+	const isShipped = sql`${built.state} = 'shipped'`;
+	const shippedCount = sql<number>`coalesce(sum(case when ${isShipped} then 1 else 0 end), 0)`.mapWith(Number);
+	const returnedCount = sql<number>`coalesce(sum(case when ${isShipped} and ${back.originalId} is not null then 1 else 0 end), 0)`.mapWith(Number);
+
+	const shop = db
+		.select({ shipped: shippedCount, returned: returnedCount })
+		.from(last)
+		.innerJoin(assemblyRecord, eq(assemblyRecord.id, last.recordId))
+		.innerJoin(built, eq(built.id, last.unitId))
+		.innerJoin(turboModel, eq(turboModel.id, built.modelId))
+		.leftJoin(back, eq(back.originalId, built.id))
+		.where(and(...where))
+		.get() ?? { shipped: 0, returned: 0 };
+
+	const v = verdicts(db);
+	const mode = jsonText(verdictEvent.data, 'failureMode');
+	const lots: LotCounts[] = [];
+	for (const kind of PART_KINDS) {
+		const lotCol = LOT_COLUMN[kind];
+		const counts = db
+			.select({ lot: lotCol, built: sql<number>`count(*)`.mapWith(Number), shipped: shippedCount, returned: returnedCount })
+			.from(last)
+			.innerJoin(assemblyRecord, eq(assemblyRecord.id, last.recordId))
+			.innerJoin(built, eq(built.id, last.unitId))
+			.innerJoin(turboModel, eq(turboModel.id, built.modelId))
+			.leftJoin(back, eq(back.originalId, built.id))
+			.where(and(...where))
+			.groupBy(lotCol)
+			.all();
+		// One row per return of a shipped unit built from the lot, by the mode its teardown found.
+		const mix = db
+			.select({ lot: lotCol, mode, count: sql<number>`count(*)`.mapWith(Number) })
+			.from(last)
+			.innerJoin(assemblyRecord, eq(assemblyRecord.id, last.recordId))
+			.innerJoin(built, eq(built.id, last.unitId))
+			.innerJoin(turboModel, eq(turboModel.id, built.modelId))
+			.innerJoin(returned, eq(returned.returnOfUnitId, built.id))
+			.leftJoin(v, eq(v.unitId, returned.id))
+			.leftJoin(verdictEvent, eq(verdictEvent.id, v.eventId))
+			.where(and(isShipped, ...where))
+			.groupBy(lotCol, mode)
+			.all();
+		const modesOf = new Map<string, Map<FailureMode | 'not_recorded', number>>();
+		for (const m of mix) {
+			const key: FailureMode | 'not_recorded' = isFailureMode(m.mode) ? m.mode : 'not_recorded';
+			const byMode = modesOf.get(m.lot) ?? new Map();
+			byMode.set(key, (byMode.get(key) ?? 0) + m.count);
+			modesOf.set(m.lot, byMode);
+		}
+		for (const c of counts) {
+			const modes = [...(modesOf.get(c.lot)?.entries() ?? [])].map(([m, count]) => ({ mode: m, count })).sort((a, b) => b.count - a.count || a.mode.localeCompare(b.mode));
+			lots.push({ kind, lot: c.lot, built: c.built, shipped: c.shipped, returned: c.returned, modes });
+		}
+	}
+	return judgeLots(lots, shop);
 }
 
 export interface StationWork {
