@@ -58,8 +58,14 @@ test('screens of the other reports render (for a look)', async ({ page }) => {
 		await expect(page.locator('table').first()).toBeVisible();
 		if (process.env.SHOTS) await page.screenshot({ path: `test-results/${shot}.png`, fullPage: true });
 	}
+	// the returns by bearing-kit and seal-kit lot, with the rule that flags a lot
+	await expect(page.getByTestId('parts-lots').getByRole('heading', { name: 'Returns by parts lot' })).toBeVisible();
+	await expect(page.getByTestId('parts-lots').locator('tbody tr').first()).toContainText(/BK-|SK-/);
 	await page.getByTestId('returns-table').getByRole('link').first().click();
 	await expect(page.getByTestId('trace-original')).toBeVisible();
 	await expect(page.getByTestId('trace-stations')).toBeVisible();
+	// the original's build record: its kit lots and its balance runs
+	await expect(page.getByTestId('assembly-records')).toContainText(/BK-\d+/);
+	await expect(page.getByTestId('balance-runs').getByText(/Pass|Fail/).first()).toBeVisible();
 	if (process.env.SHOTS) await page.screenshot({ path: 'test-results/trace.png', fullPage: true });
 });

@@ -19,7 +19,9 @@ describe('parts lots against the shop’s return rate', () => {
 	it('does not flag a small lot on one return, nor a lot with nothing shipped, nor a shop without a rate', () => {
 		// 1/5 is a fifth of the lot, but its Wilson lower limit is 0.0362 (score formula, Wilson 1927), below a 5 % shop.
 		expect(lotAboveShop(1, 5, 0.05)).toBe(false);
-		expect(lotAboveShop(1, 5, 0.03)).toBe(true);
+		expect(lotAboveShop(2, 5, 0.03)).toBe(true);
+		// 1/1 has a Wilson lower limit of 0.2065 (score formula), above a 4 % shop, but a single return is not a pattern.
+		expect(lotAboveShop(1, 1, 0.04)).toBe(false);
 		expect(lotAboveShop(0, 0, 0.05)).toBe(false);
 		expect(lotAboveShop(3, 10, null)).toBe(false);
 	});

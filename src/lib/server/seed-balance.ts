@@ -86,7 +86,8 @@ export function demoBuildRecords(tx: DbOrTx, models: { id: number; code: string 
 	let pendingAssembly: (typeof assemblyRecord.$inferInsert)[] = [];
 	let pendingRuns: (typeof balanceRun.$inferInsert)[] = [];
 	let runNo = 0;
-	const lot = (p: string) => `${p}-${String(2600 + Math.floor(random() * 400))}`;
+	// a kit lot serves many builds: a handful of lots per kind, as a parts shelf holds
+	const lot = (p: string) => `${p}-${String(2610 + Math.floor(random() * 6))}`;
 	let wheels = { comp: '', shaft: '' };
 
 	function before(action: ActionName, ctx: MoveContext): UnitFacts {

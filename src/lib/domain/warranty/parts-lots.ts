@@ -11,8 +11,10 @@
  * - The shop's rate is returned / shipped over every shipped unit with an assembly record in the
  *   same view (same build dates and model).
  *
- * The rule (one-sided comparison against the shop): a lot is **flagged** when the lower bound of
- * the 95 % Wilson interval of its return rate lies above the shop's overall return rate. A lot
+ * The rule (one-sided comparison against the shop): a lot is **flagged** when it has at least two
+ * returns and the lower bound of the 95 % Wilson interval of its return rate lies above the shop's
+ * overall return rate (one return of one shipped unit has a lower bound of 0.21, above most shops,
+ * yet says nothing about the lot). A lot
  * with few shipped units has a wide interval, so a single return among a handful of units does
  * not flag it; a lot is flagged only when even the optimistic end of its interval is worse than
  * the shop. This is the
@@ -26,8 +28,11 @@ export const PART_KINDS = ['bearing_kit', 'seal_kit'] as const;
 export type PartKind = (typeof PART_KINDS)[number];
 export const PART_KIND_LABEL: Record<PartKind, string> = { bearing_kit: 'Bearing kit', seal_kit: 'Seal kit' };
 
+/** One return is an anecdote, whatever its interval says: a lot needs at least this many to be flagged. */
+export const MIN_RETURNS_TO_FLAG = 2;
+
 export const LOT_FLAG_RULE =
-	'A lot is flagged (▲) when the low end of its 95 % Wilson interval is above the shop’s overall return rate.';
+	'A lot is flagged when it has at least two returns and the low end of its 95 % Wilson interval is above the shop’s overall return rate.';
 
 export interface LotCounts {
 	kind: PartKind;
@@ -51,7 +56,7 @@ export interface LotVerdict extends LotCounts {
 
 /** The rule itself: is the lot's interval wholly above the shop's rate? */
 export function lotAboveShop(returned: number, shipped: number, shopRate: number | null, confidence = 0.95): boolean {
-	if (shopRate === null || shipped === 0) return false;
+	if (shopRate === null || shipped === 0 || returned < MIN_RETURNS_TO_FLAG) return false;
 	const { low } = rateWithInterval(returned, shipped, confidence);
 	return low !== null && low > shopRate;
 }

@@ -10,6 +10,7 @@ import { aliasedTable, and, desc, eq, gte, inArray, isNotNull, lte, sql, type SQ
 import { FAILURE_MODE_LABEL, isFailureMode, type FailureMode } from '../../domain/warranty/failure-modes';
 import { judgeLots, PART_KINDS, type LotCounts, type LotVerdict, type PartKind } from '../../domain/warranty/parts-lots';
 import type { Stage, UnitState } from '../../domain/units/states';
+import { buildRecord, type BuildRecordView } from '../balance';
 import type { DbOrTx } from '../db';
 import { jsonText, weekOfMs } from '../db/report-sql';
 import { assemblyRecord, coreLot, supplier, turboModel, unit, unitEvent } from '../db/schema';
@@ -146,7 +147,7 @@ function cameBack(db: DbOrTx) {
 		.as('came_back');
 }
 
-const LOT_COLUMN: Record<PartKind, typeof assemblyRecord.bearingKitLot> = {
+const LOT_COLUMN: Record<PartKind, typeof assemblyRecord.bearingKitLot | typeof assemblyRecord.sealKitLot> = {
 	bearing_kit: assemblyRecord.bearingKitLot,
 	seal_kit: assemblyRecord.sealKitLot
 };
@@ -246,6 +247,8 @@ export interface TraceBack {
 		inspection: EventView[];
 		/** Who did what where, in order. */
 		work: StationWork[];
+		/** Its assembly records (clearances, parts lots, wheels) and balance runs, oldest first. */
+		build: BuildRecordView;
 	} | null;
 }
 
@@ -285,7 +288,8 @@ export function traceBack(db: DbOrTx, serial: string): TraceBack | null {
 			inspection: found.history.filter((e) => e.action === 'inspect' || e.action === 'accept' || e.action === 'scrap'),
 			work: found.history
 				.filter((e) => STAGE_OF_ACTION[e.action])
-				.map((e) => ({ stage: STAGE_OF_ACTION[e.action] ?? null, action: e.action, station: e.station?.name ?? null, tech: e.user?.name ?? null, at: e.at }))
+				.map((e) => ({ stage: STAGE_OF_ACTION[e.action] ?? null, action: e.action, station: e.station?.name ?? null, tech: e.user?.name ?? null, at: e.at })),
+			build: buildRecord(db, ret.returnOf)
 		};
 	}
 	return { unit: mine.unit, history: mine.history, failureMode, failureModeLabel: failureMode ? FAILURE_MODE_LABEL[failureMode] : null, original: orig };
