@@ -20,7 +20,7 @@ export default defineConfig({
 		}
 	},
 	webServer: {
-		command: 'npx vite build --logLevel warn && npx tsx scripts/seed.ts --fresh && node build',
+		command: 'npx vite build --logLevel warn && npx tsx scripts/seed.ts --fresh && node server.js',
 		url: `${origin}/api/health`,
 		reuseExistingServer: false,
 		timeout: 180_000,

@@ -256,7 +256,7 @@ async function main() {
 	ro.close();
 	console.log(`  ${pool.length} units waiting at stations feed the scan runs`);
 
-	const server: ChildProcess = spawn('node', ['build'], {
+	const server: ChildProcess = spawn('node', ['server.js'], {
 		env: { ...process.env, PORT: String(PORT), HOST: '127.0.0.1', ORIGIN, DATABASE_URL: FILE },
 		stdio: ['ignore', 'ignore', 'inherit']
 	});

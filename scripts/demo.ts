@@ -21,6 +21,6 @@ function run(cmd: string, args: string[]) {
 run('npx', ['tsx', 'scripts/seed.ts']);
 run('npx', ['vite', 'build', '--logLevel', 'warn']);
 console.log(`\nSpoolyard demo shop on ${env.ORIGIN} (sign-ins in README.md). Ctrl-C stops it.\n`);
-const server = spawn('node', ['build'], { stdio: 'inherit', env });
+const server = spawn('node', ['server.js'], { stdio: 'inherit', env });
 for (const sig of ['SIGINT', 'SIGTERM'] as const) process.on(sig, () => server.kill(sig));
 server.on('exit', (code) => process.exit(code ?? 0));

@@ -34,9 +34,13 @@ export interface Fixtures {
 	/** A lot and a model that exist. */
 	lotCode: string;
 	modelCode: string;
-	/** A valid customer tracking token, once customers can track their units. */
-	token?: string;
+	/** A live customer tracking token, and a photo shared on that token's order. */
+	token: string;
+	sharedPhotoId: number;
 }
+
+/** The customer's own status link; every other visitor tries a made-up token. */
+const trackPath = (tail: string) => (f: Fixtures, who: Who) => `/track/${who === 'customer' ? f.token : 'not-a-valid-token-at-all'}${tail}`;
 
 export interface Check {
 	method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
@@ -160,7 +164,7 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 		path: () => '/orders/999999',
 		checks: [
 			{ method: 'GET', answers: only(INTAKE, 'missing') },
-			...forms(INTAKE, 'addLine', 'removeLine', 'setCore', 'sendQuote', 'withdrawQuote', 'resendLink', 'revokeLink', 'scrapDeclined')
+			...forms(INTAKE, 'addLine', 'removeLine', 'setCore', 'sendQuote', 'withdrawQuote', 'sharePhoto', 'resendLink', 'revokeLink', 'scrapDeclined')
 		]
 	},
 	'/(app)/shipments': { path: () => '/shipments', checks: [{ method: 'GET', answers: only(ALL) }, ...forms(STEERING, 'create')] },
@@ -169,11 +173,16 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 	'/(app)/dev/mail': { path: () => '/dev/mail', checks: [{ method: 'GET', answers: only(OWNER, 'pass') }] },
 	'/api/dev/mail/[id=id]': { path: () => '/api/dev/mail/999999', checks: [{ method: 'GET', answers: only(OWNER, 'missing') }] },
 	'/track/[token]': {
-		path: () => '/track/not-a-valid-token-at-all',
+		path: trackPath(''),
 		checks: [
-			{ method: 'GET', answers: everyone('missing') },
+			{ method: 'GET', answers: { ...everyone('missing'), customer: 'ok' } },
 			...['approve', 'decline', 'pay', 'prefs'].map((action): Check => ({ method: 'POST', action, answers: everyone('pass') }))
 		]
+	},
+	'/track/[token]/photos/[id=id]': {
+		// the customer's own token with a photo shared on their order; everyone else guesses
+		path: (f, who) => trackPath(`/photos/${who === 'customer' && f.sharedPhotoId ? f.sharedPhotoId : 999999}`)(f, who),
+		checks: [{ method: 'GET', answers: { ...everyone('missing'), customer: 'ok' } }]
 	},
 	'/api/payments/webhook': { path: () => '/api/payments/webhook', checks: [{ method: 'POST', json: {}, answers: everyone('pass') }] },
 

@@ -1,6 +1,5 @@
 import { expect, test, type Browser, type Page } from '@playwright/test';
-import { PNG } from 'pngjs';
-import { scan, signIn, type PEOPLE } from './helpers';
+import { scan, signIn, smallPng, type PEOPLE } from './helpers';
 
 async function openBoard(browser: Browser, who: keyof typeof PEOPLE, code: string, block = false): Promise<Page> {
 	const context = await browser.newContext();
@@ -15,12 +14,6 @@ async function openBoard(browser: Browser, who: keyof typeof PEOPLE, code: strin
 async function firstQueued(page: Page, filter: { hasText?: string | RegExp; hasNotText?: string } = {}) {
 	const row = page.getByTestId('queue').locator('tbody tr').filter(filter).first();
 	return (await row.locator('td').first().innerText()).trim();
-}
-
-function smallPng(): Buffer {
-	const png = new PNG({ width: 24, height: 16 });
-	for (let i = 0; i < png.data.length; i += 4) png.data.set([63, 111, 209, 255], i);
-	return PNG.sync.write(png);
 }
 
 test('a scan on one board shows on another board without a reload', async ({ browser }) => {

@@ -1,6 +1,6 @@
 import { expect, test, type Browser, type Page } from '@playwright/test';
 import { simpleParser } from 'mailparser';
-import { scan, signIn } from './helpers';
+import { scan, signIn, smallPng } from './helpers';
 import { recordAssembly, recordPassingRun } from './bench';
 
 /** Read the newest message to `to` whose subject contains `subject`, through the local SMTP fake's mailbox. */
@@ -75,6 +75,7 @@ test('a customer follows their unit from intake to shipment: link, quote, paymen
 
 	// Teardown qualifies it; the floor cannot start work before the quote is approved.
 	await scanAt(tech, 'TEARDOWN-1', serial, 'Inspected');
+	await tech.getByTestId('photos').setInputFiles([{ name: 'IMG_4471.png', mimeType: 'image/png', buffer: smallPng(48, 32, [140, 60, 40]) }]);
 	await tech.getByTestId('accept').click();
 	await expect(tech.getByTestId('scan-result')).toHaveText(`${serial} → Accepted`);
 	await tech.goto('/stations/WASH');
@@ -100,8 +101,22 @@ test('a customer follows their unit from intake to shipment: link, quote, paymen
 	await office.getByRole('button', { name: 'Send quote to the customer' }).click();
 	await expect(office.getByTestId('quote-status')).toContainText('waiting for the customer');
 
+	// The office shares the teardown photo with a caption; the customer sees it, not its file name.
+	const photo = office.getByTestId('order-photo');
+	await expect(photo).toHaveCount(1);
+	await expect(photo.getByTestId('order-photo-state')).toContainText('Not shared');
+	await photo.getByLabel('Caption the customer reads').fill('Oil coking found on the bearing housing');
+	await photo.getByRole('button', { name: 'Share with the customer' }).click();
+	await expect(office.getByTestId('order-message')).toContainText('sees this photo');
+	await expect(office.getByTestId('order-photo').getByTestId('order-photo-state')).toContainText('Shared with the customer');
+
 	// The customer sees the quote, approves and pays through the test checkout.
 	await customer.reload();
+	const shared = customer.getByTestId('track-photo');
+	await expect(shared).toHaveCount(1);
+	await expect(shared).toContainText('Oil coking found on the bearing housing');
+	await expect(customer.getByTestId('track-photos')).not.toContainText('IMG_4471');
+	await expect.poll(() => shared.locator('img').evaluate((img: HTMLImageElement) => img.complete && img.naturalWidth)).toBeGreaterThan(0);
 	await expect(customer.getByTestId('track-quote-total')).toHaveText('$353.98');
 	await customer.getByRole('button', { name: 'Approve the quote' }).click();
 	await expect(customer.getByTestId('track-message')).toContainText('approved');

@@ -1,4 +1,5 @@
 import { expect, type Page } from '@playwright/test';
+import { PNG } from 'pngjs';
 
 export const PEOPLE = {
 	owner: { email: 'ines@corvidhill.example', password: 'owner-demo-2026' },
@@ -22,4 +23,11 @@ export async function scan(page: Page, serial: string) {
 	await expect(box).toBeEnabled();
 	await box.fill(serial);
 	await box.press('Enter');
+}
+
+/** A small solid-colour PNG, as a camera upload stands in for in tests. */
+export function smallPng(width = 24, height = 16, rgb: [number, number, number] = [63, 111, 209]): Buffer {
+	const png = new PNG({ width, height });
+	for (let i = 0; i < png.data.length; i += 4) png.data.set([...rgb, 255], i);
+	return PNG.sync.write(png);
 }

@@ -314,6 +314,7 @@ FUZZ_TARGETS.push(
 	...['addLine', 'removeLine', 'setCore', 'sendQuote', 'withdrawQuote', 'resendLink', 'revokeLink', 'scrapDeclined'].map((a) =>
 		formTarget('/(app)/orders/[id=id]', a, 'office', (f) => `/orders/${f.orderIds[0] ?? 999999}`, ['kind', 'description', 'quantity', 'unitPriceCents', 'lineId', 'amountCents'], 0.25, ['resendLink', 'revokeLink'].includes(a))
 	),
+	formTarget('/(app)/orders/[id=id]', 'sharePhoto', 'office', (f) => `/orders/${f.orderIds[0] ?? 999999}`, ['photoId', 'shared', 'caption'], 0.25),
 	formTarget('/(app)/shipments', 'create', 'lead', () => '/shipments', ['destination', 'carrier', 'trackingNumber', 'serials']),
 	...['approve', 'decline', 'pay', 'prefs'].map((a) => formTarget('/track/[token]', a, 'anon', () => '/track/not-a-valid-token-at-all', ['choice', 'received', 'shipped'], 0.25)),
 	jsonTarget('/api/payments/webhook', 'anon', () => '/api/payments/webhook', ['id', 'type', 'data']),

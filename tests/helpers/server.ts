@@ -98,11 +98,11 @@ export interface RunningServer {
 	kill9(): Promise<void>;
 }
 
-/** Start `node build` on a database file and wait until /api/health answers. */
+/** Start `node server.js` (the built app) on a database file and wait until /api/health answers. */
 export async function startServer(dbFile: string, port: number, env: Record<string, string> = {}): Promise<RunningServer> {
 	const origin = `http://127.0.0.1:${port}`;
 	let out = '';
-	const child = spawn(process.execPath, ['build'], {
+	const child = spawn(process.execPath, ['server.js'], {
 		cwd: ROOT,
 		env: { ...process.env, NODE_ENV: 'production', PORT: String(port), HOST: '127.0.0.1', ORIGIN: origin, DATABASE_URL: dbFile, INSECURE_COOKIES: '1', ...env },
 		stdio: ['ignore', 'pipe', 'pipe']

@@ -3,10 +3,14 @@
  * The expectations live in tests/access/matrix.ts; the routes are read from src/routes.
  */
 import Database from 'better-sqlite3';
+import { join } from 'node:path';
+import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { EXPECTED, VISITORS, type Answer, type Check, type Fixtures, type Who } from '../access/matrix';
 import { routeFiles } from '../access/routes';
 import { ROUTE_ACCESS } from '../../src/lib/server/access';
+import { storePhotos } from '../../src/lib/server/photos';
+import { hashToken, newToken } from '../../src/lib/server/track-links';
 import { Client, cleanup, DEMO_PEOPLE, ensureBuilt, freshDemoDb, signedIn, startServer, type Reply, type RunningServer } from '../helpers/server';
 
 const PORT = 4260;
@@ -46,15 +50,29 @@ describe('routes × visitors on the built server', () => {
 		await ensureBuilt();
 		const db = await freshDemoDb();
 		dir = db.dir;
-		const conn = new Database(db.file, { readonly: true });
+		const uploads = join(dir, 'uploads');
+		const conn = new Database(db.file);
 		const u = conn.prepare(`select serial from unit order by id limit 1`).get() as { serial: string };
 		const s = conn.prepare(`select code from station where code = 'WASH'`).get() as { code: string };
 		const lot = conn.prepare(`select code from core_lot order by id limit 1`).get() as { code: string };
 		const model = conn.prepare(`select code from turbo_model order by id limit 1`).get() as { code: string };
+		// The customer: a live status link on a demo order, with one teardown photo shared on it.
+		const order = conn.prepare(`select id, unit_id as unitId from rebuild_order order by id limit 1`).get() as { id: number; unitId: number };
+		const office = conn.prepare(`select id from user where role = 'office' limit 1`).pluck().get() as string;
+		const token = newToken();
+		const now = Date.now();
+		conn.prepare(`insert into track_link (order_id, token_hash, created_at, expires_at) values (?, ?, ?, ?)`).run(order.id, hashToken(token), now, now + 86_400_000);
+		process.env.UPLOADS_DIR = uploads;
+		const stored = await storePhotos([{ name: 'housing.png', bytes: await sharp({ create: { width: 8, height: 6, channels: 3, background: '#556677' } }).png().toBuffer() }]);
+		if (!stored.ok) throw new Error(stored.message);
+		const p = stored.photos[0];
+		const photoId = Number(
+			conn.prepare(`insert into unit_photo (unit_id, sha256, mime, bytes, width, height, original_name, user_id, at) values (?, ?, ?, ?, ?, ?, ?, ?, ?)`).run(order.unitId, p.sha256, p.mime, p.bytes, p.width, p.height, p.originalName, office, now).lastInsertRowid
+		);
+		conn.prepare(`insert into unit_photo_share (photo_id, order_id, shared, caption, user_id, at) values (?, ?, 1, '', ?, ?)`).run(photoId, order.id, office, now);
 		conn.close();
-		// A customer tracking token fixture goes here once customers can track units.
-		fixtures = { serial: u.serial, stationCode: s.code, lotCode: lot.code, modelCode: model.code };
-		server = await startServer(db.file, PORT);
+		fixtures = { serial: u.serial, stationCode: s.code, lotCode: lot.code, modelCode: model.code, token, sharedPhotoId: photoId };
+		server = await startServer(db.file, PORT, { UPLOADS_DIR: uploads, TRACK_RATE_LIMIT: '1000' });
 		for (const who of ['owner', 'lead', 'tech', 'office'] as const) clients.set(who, await signedIn(server.origin, who));
 		clients.set('anon', new Client(server.origin));
 		clients.set('customer', new Client(server.origin));

@@ -6,7 +6,7 @@
 import { createHash } from 'node:crypto';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { EXPECTED } from '../access/matrix';
+import { EXPECTED, type Fixtures } from '../access/matrix';
 import { Client, cleanup, DEMO_PEOPLE, ensureBuilt, freshDemoDb, signedIn, startServer, type Reply, type RunningServer } from '../helpers/server';
 
 const PORT = 4262;
@@ -15,7 +15,7 @@ let dir: string;
 let owner: Client;
 let anon: Client;
 /** Codes read from the demo database: its lot codes carry the day it was seeded. */
-let fixtures: { serial: string; stationCode: string; lotCode: string; modelCode: string };
+let fixtures: Fixtures;
 
 beforeAll(async () => {
 	await ensureBuilt();
@@ -27,7 +27,10 @@ beforeAll(async () => {
 		serial: one(`select serial as code from unit order by id limit 1`),
 		stationCode: 'WASH',
 		lotCode: one(`select code from core_lot order by id limit 1`),
-		modelCode: one(`select code from turbo_model order by id limit 1`)
+		modelCode: one(`select code from turbo_model order by id limit 1`),
+		// the owner's pages need no customer link
+		token: 'not-a-valid-token-at-all',
+		sharedPhotoId: 0
 	};
 	conn.close();
 	server = await startServer(db.file, PORT);
@@ -138,6 +141,25 @@ describe('headers on real responses', () => {
 		expect(api.headers['content-type']).toMatch(/^application\/json/);
 		expectSafeHeaders(api, 'api');
 		expectSafeHeaders(await anon.get('/api/units'), 'api 401');
+	});
+
+	test('static files served before the hooks carry them too: built assets, fonts, the icon, a missing file', async () => {
+		const login = await anon.get('/login');
+		// the page links them relative to itself (./_app/…)
+		const assets = [...new Set([...login.text.matchAll(/["'](?:\.\/|\/)?(_app\/immutable\/[^"']+\.(?:js|css))["']/g)].map((m) => `/${m[1]}`))];
+		expect(assets.length, 'the sign-in page links built scripts and styles').toBeGreaterThanOrEqual(2);
+		const css = assets.find((a) => a.endsWith('.css'));
+		const fontRef = css ? /url\(["']?([^)"']+\.woff2)["']?\)/.exec((await anon.get(css)).text)?.[1] : undefined;
+		const font = fontRef ? new URL(fontRef, `${server.origin}${css}`).pathname : undefined;
+		expect(font, 'the stylesheet ships its own font files').toBeTruthy();
+		for (const path of [...assets.slice(0, 4), font!, '/favicon.svg']) {
+			const r = await anon.get(path);
+			expect(r.status, path).toBe(200);
+			expectSafeHeaders(r, path);
+		}
+		const gone = await anon.get('/_app/immutable/chunks/no-such-file.js');
+		expect(gone.status).toBe(404);
+		expectSafeHeaders(gone, 'missing asset');
 	});
 
 	test('session cookies are HttpOnly and SameSite=Lax', async () => {

@@ -54,6 +54,7 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/(app)/dev/mail': { read: OWNER },
 	'/api/dev/mail/[id=id]': { read: OWNER },
 	'/track/[token]': { read: 'public' },
+	'/track/[token]/photos/[id=id]': { read: 'public' },
 	'/api/payments/webhook': { read: 'public', methods: { POST: 'public' } },
 
 	// Lot intake, travelers and printed histories

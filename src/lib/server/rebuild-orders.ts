@@ -25,6 +25,7 @@ import { publicBaseUrl } from './rebuild-settings';
 import { INTAKE_ROLES } from '../domain/auth/roles';
 import { NOTICE_KINDS } from '../domain/customer/progress';
 import { readyEstimate, type ReadyEstimate } from './flow-estimate';
+import { sharedPhotos, type CustomerPhoto } from './photo-sharing';
 
 const trimmed = (max: number, what: string) =>
 	z
@@ -275,6 +276,8 @@ export interface TrackView {
 	declineChoice: string | null;
 	shipment: { carrier: string; trackingNumber: string; shippedOn: string } | null;
 	prefs: Record<(typeof NOTICE_KINDS)[number], boolean>;
+	/** Photos the office chose to share, with their captions. */
+	photos: CustomerPhoto[];
 }
 
 /**
@@ -315,7 +318,8 @@ export function trackView(db: DbOrTx, orderId: number, now: Date = new Date()): 
 				: null,
 		declineChoice: order.declineChoice,
 		shipment: s ? { carrier: s.carrier, trackingNumber: s.trackingNumber, shippedOn: s.createdAt.toISOString().slice(0, 10) } : null,
-		prefs: { received: order.notifyReceived, quote_ready: order.notifyQuote, in_work: order.notifyInWork, shipped: order.notifyShipped }
+		prefs: { received: order.notifyReceived, quote_ready: order.notifyQuote, in_work: order.notifyInWork, shipped: order.notifyShipped },
+		photos: sharedPhotos(db, orderId)
 	};
 }
 

@@ -564,6 +564,23 @@ export const signInThrottle = sqliteTable('sign_in_throttle', {
 	locks: integer('locks').notNull().default(0),
 	consecutive: integer('consecutive').notNull().default(0)
 });
+
+/** Locks the owner lifted by hand: append-only, so a lifted lock can always be accounted for. */
+export const signInLockLift = sqliteTable(
+	'sign_in_lock_lift',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		/** The throttle key, `account:<e-mail>` or `address:<client address>`. */
+		key: text('key').notNull(),
+		/** When the lock would have ended on its own (ms since the epoch). */
+		lockedUntil: integer('locked_until').notNull(),
+		liftedBy: text('lifted_by')
+			.notNull()
+			.references(() => user.id, { onDelete: 'restrict' }),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull()
+	},
+	(t) => [index('sign_in_lock_lift_at_idx').on(t.at)]
+);
 // ---------------------------------------------------------------------------
 // The lead's board: priority cards, orders and demand, build-plan settings.
 // ---------------------------------------------------------------------------
@@ -780,10 +797,36 @@ export const unitPhoto = sqliteTable(
 	(t) => [index('unit_photo_unit_idx').on(t.unitId), index('unit_photo_sha_idx').on(t.sha256)]
 );
 
+/**
+ * Which photos the office shows a customer on their status page: an append-only log, one row
+ * per decision (shared, or withdrawn). The latest row for a photo and order is what holds.
+ */
+export const unitPhotoShare = sqliteTable(
+	'unit_photo_share',
+	{
+		id: integer('id').primaryKey({ autoIncrement: true }),
+		photoId: integer('photo_id')
+			.notNull()
+			.references(() => unitPhoto.id, { onDelete: 'restrict' }),
+		orderId: integer('order_id')
+			.notNull()
+			.references(() => rebuildOrder.id, { onDelete: 'restrict' }),
+		shared: integer('shared', { mode: 'boolean' }).notNull(),
+		/** What the customer reads under the photo; never the file's own name or an internal note. */
+		caption: text('caption').notNull().default(''),
+		userId: text('user_id')
+			.notNull()
+			.references(() => user.id, { onDelete: 'restrict' }),
+		at: integer('at', { mode: 'timestamp_ms' }).notNull()
+	},
+	(t) => [index('unit_photo_share_order_idx').on(t.orderId, t.photoId, t.id)]
+);
+
 export type Checklist = typeof checklist.$inferSelect;
 export type ChecklistItem = typeof checklistItem.$inferSelect;
 export type Inspection = typeof inspection.$inferSelect;
 export type UnitPhoto = typeof unitPhoto.$inferSelect;
+export type UnitPhotoShare = typeof unitPhotoShare.$inferSelect;
 
 // ── Owner's reports: shop settings and report indexes ──────────────────────────────────────
 

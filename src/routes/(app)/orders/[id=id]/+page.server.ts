@@ -9,6 +9,7 @@ import { getRebuildSettings } from '$lib/server/rebuild-settings';
 import { parseMoney, quoteTotals } from '$lib/domain/customer/quote';
 import { applyMove } from '$lib/server/units';
 import { pokeOutbox } from '$lib/server/customer-services';
+import { PhotoShareError, orderPhotos, setPhotoShared, shareFormSchema } from '$lib/server/photo-sharing';
 import { INTAKE_ROLES, STEERING_ROLES } from '$lib/domain/auth/roles';
 import type { Actions, PageServerLoad } from './$types';
 
@@ -18,7 +19,7 @@ export const load: PageServerLoad = async ({ params }) => {
 	if (!found) error(404, { message: 'No such rebuild order.' });
 	const settings = getRebuildSettings(db);
 	const draftTotals = found.quote ? quoteTotals(found.quote.lines, found.quote.status === 'draft' ? settings.taxRateBp : found.quote.taxRateBp, found.quote.coreCents) : null;
-	return { ...found, settings, draftTotals };
+	return { ...found, settings, draftTotals, photos: orderPhotos(db, found.order.id) };
 };
 
 type Handler = (ctx: { id: number; data: FormData; role: string; userId: string }) => Promise<Record<string, unknown> | void> | Record<string, unknown> | void;
@@ -32,7 +33,7 @@ function act(handler: Handler, roles: readonly string[] = INTAKE_ROLES) {
 			const out = await handler({ id, data: await request.formData(), role: locals.user!.role, userId: locals.user!.id });
 			return out ?? { ok: true };
 		} catch (e) {
-			if (e instanceof QuoteError || e instanceof OrderError) return fail(400, { message: e.message });
+			if (e instanceof QuoteError || e instanceof OrderError || e instanceof PhotoShareError) return fail(400, { message: e.message });
 			throw e;
 		}
 	};
@@ -61,6 +62,18 @@ export const actions: Actions = {
 		pokeOutbox();
 	}),
 	withdrawQuote: act(({ id }) => withdrawQuote(getDb(), id)),
+	sharePhoto: act(({ id, data, userId }) => {
+		const fields: Record<string, string> = {};
+		for (const k of ['photoId', 'shared', 'caption']) {
+			const v = data.get(k);
+			if (typeof v === 'string') fields[k] = v.slice(0, 1000);
+		}
+		const parsed = shareFormSchema.safeParse(fields);
+		if (!parsed.success) return fail(400, { message: parsed.error.issues[0]?.message ?? 'Check the photo form.', photoId: Number(fields.photoId) || null, caption: fields.caption ?? '' }) as never;
+		const changed = setPhotoShared(getDb(), id, parsed.data, userId);
+		const what = parsed.data.shared ? 'The customer sees this photo, with its caption, on their status page.' : 'The customer no longer sees this photo.';
+		return { message: changed ? what : 'Nothing to change.' };
+	}),
 	resendLink: act(({ id }) => {
 		const token = resendTrackLink(getDb(), id);
 		pokeOutbox();
