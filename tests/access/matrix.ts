@@ -116,7 +116,8 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 			{ method: 'GET', answers: only(OWNER) },
 			{ method: 'POST', action: 'create', answers: only(OWNER, 'pass') },
 			{ method: 'POST', action: 'role', answers: only(OWNER, 'pass') },
-			{ method: 'POST', action: 'active', answers: only(OWNER, 'pass') }
+			{ method: 'POST', action: 'active', answers: only(OWNER, 'pass') },
+			{ method: 'POST', action: 'lift', answers: only(OWNER, 'pass') }
 		]
 	},
 

@@ -246,6 +246,16 @@ export const FUZZ_TARGETS: FuzzTarget[] = [
 		}
 	},
 	{
+		route: '/(app)/admin/users',
+		action: 'lift',
+		as: 'owner',
+		request: () => {
+			// keys that look right but are not locked, and hostile ones: every lift is refused
+			const fields = formFields(fc.record({ key: field(fc.constantFrom('account:nobody@corvidhill.example', 'address:203.0.113.9', 'account:', "address:' or 1=1 --")) }));
+			return formOr(fc.constant('/admin/users?/lift'), fields);
+		}
+	},
+	{
 		route: '/login',
 		action: 'default',
 		as: 'anon',

@@ -77,6 +77,25 @@ describe('lock-out', () => {
 		expect(await signedInStill(after)).toBe(true);
 	}, 60_000);
 
+	test('the owner lifts the account lock from the people page: the person signs in at once, and the lift is kept', async () => {
+		const owner = await as('owner');
+		const { email, password } = DEMO_PEOPLE.tech;
+		const page = await owner.get('/admin/users');
+		expect(page.text).toContain(`Sign-ins as ${email}`);
+		const r = await owner.action('/admin/users?/lift', { key: `account:${email}` });
+		expect(r.json().type).toBe('success');
+		const again = await owner.action('/admin/users?/lift', { key: `account:${email}` });
+		expect(again.json().type).toBe('failure');
+		expect(JSON.stringify(again.json())).toContain('already ended or been lifted');
+		const c = client();
+		await c.signIn(email, password);
+		expect(await signedInStill(c)).toBe(true);
+		const db = new Database(file, { readonly: true });
+		const lifts = db.prepare(`select key, lifted_by as liftedBy from sign_in_lock_lift`).all();
+		db.close();
+		expect(lifts).toEqual([{ key: `account:${email}`, liftedBy: userId(DEMO_PEOPLE.owner.email) }]);
+	}, 60_000);
+
 	test('an unknown e-mail is locked the same way, so a lock says nothing about who has an account', async () => {
 		const c = client();
 		for (let i = 0; i < 5; i++) expect((await tryPassword(c, 'nobody@corvidhill.example', `guess ${i}`)).status).toBe(400);
@@ -161,7 +180,8 @@ describe('sessions', () => {
 
 describe('lock-out per address', () => {
 	// last in this file: it locks 127.0.0.1 for everyone
-	test('twenty failures from one address, on any accounts, lock that address', async () => {
+	test('twenty failures from one address, on any accounts, lock that address; the owner can lift it', async () => {
+		const ownerBefore = await as('owner');
 		const c = client();
 		const db = new Database(file, { readonly: true });
 		const row = db.prepare(`select failures from sign_in_throttle where key = 'address:127.0.0.1'`).get() as { failures: number } | undefined;
@@ -174,5 +194,12 @@ describe('lock-out per address', () => {
 		const r = await tryPassword(c, DEMO_PEOPLE.lead.email, DEMO_PEOPLE.lead.password);
 		expect(r.status).toBe(429);
 		expect(r.text).toContain('Too many failed sign-ins');
+
+		// the owner, still signed in, lifts it; the lead gets in again
+		const lift = await ownerBefore.action('/admin/users?/lift', { key: 'address:127.0.0.1' });
+		expect(lift.json().type).toBe('success');
+		const lead = client();
+		await lead.signIn(DEMO_PEOPLE.lead.email, DEMO_PEOPLE.lead.password);
+		expect(await signedInStill(lead)).toBe(true);
 	}, 60_000);
 });

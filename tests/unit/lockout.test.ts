@@ -3,7 +3,10 @@ import { describe, expect, test } from 'vitest';
 import {
 	ACCOUNT_POLICY,
 	ADDRESS_POLICY,
+	addressAfterSuccess,
 	afterFailure,
+	describeLockKey,
+	lockKey,
 	lockDuration,
 	lockMessage,
 	lockVerdict,
@@ -80,5 +83,21 @@ describe('lock-out after repeated failures', () => {
 		expect(lockMessage(15 * MIN)).toBe('Too many failed sign-ins. Wait 15 minutes and try again, or ask the owner.');
 		expect(lockMessage(10_000)).toMatch(/Wait 1 minute /);
 		expect(lockMessage(240 * MIN)).toMatch(/Wait 4 hours /);
+	});
+});
+
+describe('keys and a good sign-in', () => {
+	test('a good sign-in ends the address’s run of failures and nothing else', () => {
+		const s = { failures: 7, windowStart: 100, lockedUntil: 5000, locks: 2, consecutive: 57 };
+		expect(addressAfterSuccess(s)).toEqual({ ...s, consecutive: 0 });
+	});
+
+	test('keys are lower-cased e-mails and addresses, and read back as words', () => {
+		expect(lockKey('account', '  Rui@Shop.Example ')).toBe('account:rui@shop.example');
+		expect(lockKey('address', '::ffff:192.0.2.1')).toBe('address:::ffff:192.0.2.1');
+		expect(describeLockKey('account:rui@shop.example')).toEqual({ kind: 'account', subject: 'rui@shop.example', label: 'Sign-ins as rui@shop.example' });
+		expect(describeLockKey('address:::ffff:192.0.2.1')).toEqual({ kind: 'address', subject: '::ffff:192.0.2.1', label: 'Sign-ins from address ::ffff:192.0.2.1' });
+		expect(describeLockKey('session:abc')).toBeNull();
+		expect(describeLockKey('account:')).toBeNull();
 	});
 });

@@ -74,3 +74,28 @@ export function lockMessage(retryAfterMs: number): string {
 	const when = minutes >= 120 ? `${Math.ceil(minutes / 60)} hours` : minutes === 1 ? '1 minute' : `${minutes} minutes`;
 	return `Too many failed sign-ins. Wait ${when} and try again, or ask the owner.`;
 }
+
+/**
+ * The address's state after a good sign-in from it: the run of failures in a row ends (so a
+ * busy shop behind one router never drifts to the long lock over months of typos), but the
+ * failures in the current window and any lock stand, so one good account does not reopen
+ * guessing at others from the same address. The account's own state is simply cleared.
+ */
+export function addressAfterSuccess(state: ThrottleState): ThrottleState {
+	return { ...state, consecutive: 0 };
+}
+
+export type LockKind = 'account' | 'address';
+
+/** Throttle keys are `account:<e-mail, lower case>` and `address:<client address>`. */
+export function lockKey(kind: LockKind, subject: string): string {
+	return kind === 'account' ? `account:${subject.trim().toLowerCase().slice(0, 200)}` : `address:${subject.slice(0, 100)}`;
+}
+
+/** What a key is about, in words for the owner's screen; null for a key of no known kind. */
+export function describeLockKey(key: string): { kind: LockKind; subject: string; label: string } | null {
+	const m = /^(account|address):(.+)$/s.exec(key);
+	if (!m) return null;
+	const kind = m[1] as LockKind;
+	return { kind, subject: m[2], label: kind === 'account' ? `Sign-ins as ${m[2]}` : `Sign-ins from address ${m[2]}` };
+}

@@ -4,10 +4,12 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { isRole } from '$lib/domain/auth/roles';
 import { getDb } from '$lib/server/db';
 import { DuplicateEmailError, createUser, listUsers, newUserSchema, setActive, setRole } from '$lib/server/users';
+import { LockLiftError, currentLocks, liftLock, recentLifts } from '$lib/server/sign-in-throttle';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async () => {
-	return { users: listUsers(getDb()), form: await superValidate(zod4(newUserSchema)) };
+	const db = getDb();
+	return { users: listUsers(db), locks: currentLocks(db), lifts: recentLifts(db), form: await superValidate(zod4(newUserSchema)) };
 };
 
 function str(form: FormData, name: string): string {
@@ -44,5 +46,16 @@ export const actions: Actions = {
 		if (id === locals.user!.id && !active) return fail(400, { error: 'You cannot deactivate yourself.' });
 		if (!setActive(getDb(), id, active)) return fail(404, { error: 'No such person.' });
 		return { done: active ? 'Reactivated.' : 'Deactivated; their sessions ended at once.' };
+	},
+	lift: async ({ request, locals }) => {
+		const key = str(await request.formData(), 'key').slice(0, 400);
+		if (!key) return fail(400, { error: 'Choose the lock to lift.' });
+		try {
+			const lifted = liftLock(getDb(), key, locals.user!.id);
+			return { done: `Lifted: ${lifted.label.charAt(0).toLowerCase()}${lifted.label.slice(1)} may be tried again.` };
+		} catch (e) {
+			if (e instanceof LockLiftError) return fail(400, { error: e.message });
+			throw e;
+		}
 	}
 };
