@@ -243,6 +243,20 @@ describe('POST /api/units/{serial}/inspection — the qualification and its phot
 		expect(bad.status).toBe(409);
 		expect(counts(t)).toMatchObject({ state: 'inspected', inspections: 0, photos: 0 });
 	});
+
+	test('teardown minutes go with the verdict move, where the scrap cost counts them; bad minutes are refused', async () => {
+		const [s] = shop.receive();
+		await scan(s, 'TEARDOWN-1');
+		const tooLong = await qualify(s, { verdict: 'scrap', reasonCode: 'BORE', labourMinutes: '900', ...allPass() });
+		expect(tooLong.status).toBe(400);
+		expect(tooLong.body.error.fields.labourMinutes[0]).toContain('whole number from 0 to 600');
+		expect(counts(s)).toMatchObject({ state: 'inspected', inspections: 0 });
+		const before = shop.db.$client.prepare(`select sum(scrap_labour_minutes) from lot_tally where lot_id = ?`).pluck().get(shop.lotId) as number | null;
+		const res = await qualify(s, { verdict: 'scrap', reasonCode: 'BORE', labourMinutes: '35', ...allPass() });
+		expect(res).toMatchObject({ status: 201, body: { event: { action: 'scrap', data: { reasonCode: 'BORE', labourMinutes: 35 } } } });
+		const after = shop.db.$client.prepare(`select sum(scrap_labour_minutes) from lot_tally where lot_id = ?`).pluck().get(shop.lotId) as number;
+		expect(after - (before ?? 0)).toBe(35);
+	});
 });
 
 describe('GET /api/stream', () => {

@@ -1,7 +1,7 @@
 import { describe, expect, test } from 'vitest';
 import sharp from 'sharp';
 import { PNG } from 'pngjs';
-import { checkQualification } from '../../src/lib/domain/inspection/qualification';
+import { checkQualification, parseLabourMinutes } from '../../src/lib/domain/inspection/qualification';
 import { checkPhoto, sniffImage } from '../../src/lib/domain/photos/image-type';
 import { decide } from '../../src/lib/domain/units/machine';
 import { formatDuration, isOverdue, timeInStates } from '../../src/lib/domain/units/stage-time';
@@ -19,11 +19,21 @@ describe('checkQualification', () => {
 			verdict: 'accept',
 			reasonCode: null,
 			note: null,
+			labourMinutes: null,
 			answers: [
 				{ itemId: 1, label: 'Turbine housing cracks', result: 'pass', measurement: null, measureUnit: null },
 				{ itemId: 2, label: 'Bearing bore', result: 'pass', measurement: 16.004, measureUnit: 'mm' }
 			]
 		});
+	});
+	test('teardown minutes are optional whole minutes up to a shift (600)', () => {
+		expect(['', '  ', null, undefined].map((t) => parseLabourMinutes(t))).toEqual([null, null, null, null]);
+		expect(['0', '35', ' 600 '].map((t) => parseLabourMinutes(t))).toEqual([0, 35, 600]);
+		expect(['601', '-5', '12.5', '1e2', 'ten', '35 min', 'NaN', '00000001'].map((t) => parseLabourMinutes(t))).toEqual(Array(8).fill(undefined));
+		const ok = checkQualification(items, { verdict: 'scrap', reasonCode: 'BORE', labourMinutes: '42', answers: { 1: { result: 'fail' }, 2: { result: 'na' } } });
+		expect(ok).toMatchObject({ ok: true, verdict: 'scrap', labourMinutes: 42 });
+		const bad = checkQualification(items, { verdict: 'accept', labourMinutes: '4000', answers: { 1: { result: 'pass' }, 2: { result: 'pass' } } });
+		expect(bad).toEqual({ ok: false, message: 'Teardown minutes: a whole number from 0 to 600, or leave it empty.', fields: { labourMinutes: 'Teardown minutes: a whole number from 0 to 600, or leave it empty.' } });
 	});
 	test('a missing verdict is refused first', () => {
 		expect(checkQualification(items, { answers: { 1: { result: 'pass' }, 2: { result: 'na' } } })).toMatchObject({ ok: false, message: 'Choose a verdict: accept or scrap.' });

@@ -38,7 +38,11 @@ export function recordQualification(db: Db, actor: Actor, input: QualifyInput, n
 			stationCode: input.stationCode,
 			idempotencyKey: input.idempotencyKey,
 			note: checked.note,
-			data: checked.verdict === 'scrap' ? { reasonCode: checked.reasonCode, inspected: true } : { inspected: true }
+			data: {
+				...(checked.verdict === 'scrap' ? { reasonCode: checked.reasonCode } : {}),
+				inspected: true,
+				...(checked.labourMinutes !== null ? { labourMinutes: checked.labourMinutes } : {})
+			}
 		},
 		now,
 		{

@@ -20,6 +20,8 @@ export interface QualificationInput {
 	verdict?: string | null;
 	reasonCode?: string | null;
 	note?: string | null;
+	/** Minutes the teardown took, as typed (optional): counted as labour before the verdict. */
+	labourMinutes?: string | null;
 	/** Answers by item id: result and the measurement as typed. */
 	answers: Record<number, { result?: string | null; measurement?: string | null }>;
 }
@@ -33,7 +35,7 @@ export interface Answer {
 }
 
 export type Qualification =
-	| { ok: true; verdict: Verdict; reasonCode: string | null; note: string | null; answers: Answer[] }
+	| { ok: true; verdict: Verdict; reasonCode: string | null; note: string | null; labourMinutes: number | null; answers: Answer[] }
 	| { ok: false; message: string; fields: Record<string, string> };
 
 export function checkQualification(items: readonly ChecklistItemSpec[], input: QualificationInput): Qualification {
@@ -44,6 +46,8 @@ export function checkQualification(items: readonly ChecklistItemSpec[], input: Q
 	if (verdict === 'scrap' && !reasonCode) fields.reasonCode = 'Choose a scrap reason.';
 	const note = input.note?.trim() || null;
 	if (note && note.length > 1000) fields.note = 'Keep the note under 1000 characters.';
+	const labourMinutes = parseLabourMinutes(input.labourMinutes);
+	if (labourMinutes === undefined) fields.labourMinutes = `Teardown minutes: a whole number from 0 to ${MAX_LABOUR_MINUTES}, or leave it empty.`;
 
 	const answers: Answer[] = [];
 	const missing: string[] = [];
@@ -75,5 +79,17 @@ export function checkQualification(items: readonly ChecklistItemSpec[], input: Q
 			Object.values(fields)[0];
 		return { ok: false, message, fields };
 	}
-	return { ok: true, verdict: verdict as Verdict, reasonCode: verdict === 'scrap' ? reasonCode : null, note, answers };
+	return { ok: true, verdict: verdict as Verdict, reasonCode: verdict === 'scrap' ? reasonCode : null, note, labourMinutes: labourMinutes ?? null, answers };
+}
+
+/** A teardown longer than a shift is a typing slip, not a record. */
+export const MAX_LABOUR_MINUTES = 600;
+
+/** Empty → null; a whole number 0–600 → that number; anything else → undefined (refused). */
+export function parseLabourMinutes(typed: string | null | undefined): number | null | undefined {
+	const t = typed?.trim() ?? '';
+	if (!t) return null;
+	if (!/^\d{1,4}$/.test(t)) return undefined;
+	const n = Number(t);
+	return n <= MAX_LABOUR_MINUTES ? n : undefined;
 }

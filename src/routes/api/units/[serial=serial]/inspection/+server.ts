@@ -15,7 +15,7 @@ export const GET: RequestHandler = async ({ params }) =>
 
 /**
  * Record a teardown qualification (multipart form): the checklist answers (`result-<item>`,
- * `measure-<item>`), `verdict`, `reasonCode`, `note`, `stationCode`, `idempotencyKey` and any
+ * `measure-<item>`), `verdict`, `reasonCode`, `note`, `labourMinutes` (optional), `stationCode`, `idempotencyKey` and any
  * number of `photos`. Photos are checked and written by hash first; the rows and the verdict
  * move are one transaction.
  */
@@ -71,6 +71,7 @@ export const POST: RequestHandler = async ({ params, request, locals }) => {
 		verdict,
 		reasonCode: text('reasonCode'),
 		note: text('note'),
+		labourMinutes: text('labourMinutes'),
 		answers,
 		photos: stored.photos
 	});
