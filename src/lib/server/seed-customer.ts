@@ -10,7 +10,9 @@ import { decide } from '../domain/units/machine';
 import type { UnitState } from '../domain/units/states';
 import { quoteTotals } from '../domain/customer/quote';
 import type { Tx } from './db';
-import { coreLot, quote, quoteLine, rebuildOrder, rebuildSetting, scrapReason, shipLocation, unit, unitEvent } from './db/schema';
+import { coreLot, quote, quoteLine, rebuildOrder, rebuildSetting, scrapReason, shipLocation, unit, unitEvent, unitPhoto, unitPhotoShare } from './db/schema';
+import sharp from 'sharp';
+import { storePhotos, type StoredPhoto } from './photos';
 import { queueNotice } from './rebuild-notify';
 import { issueTrackLink } from './track-links';
 import { allocateSerials } from './units';
@@ -31,6 +33,27 @@ interface Ctx {
 	tech: { id: string; role: Role };
 	stationIds: Map<string, number>;
 	modelIds: number[];
+	/** Teardown photos for the first order (from `demoTeardownPhotos`); one of them is shared with the customer. */
+	photos?: readonly StoredPhoto[];
+}
+
+/**
+ * Two drawn stand-ins for teardown photos (a housing with a marked crack, a compressor wheel),
+ * stored the way the floor stores camera uploads. Drawings, not pictures of any real part.
+ */
+export async function demoTeardownPhotos(): Promise<StoredPhoto[]> {
+	const blades = Array.from({ length: 12 }, (_, k) => {
+		const a = (k * Math.PI) / 6;
+		return `<path d="M320 240 L${(320 + 150 * Math.cos(a)).toFixed(1)} ${(240 + 150 * Math.sin(a)).toFixed(1)}" stroke="#c9ced6" stroke-width="10" stroke-linecap="round"/>`;
+	}).join('');
+	const svgs = {
+		'teardown-housing.png': `<svg xmlns="http://www.w3.org/2000/svg" width="640" height="480"><rect width="640" height="480" fill="#2b2f36"/><circle cx="320" cy="240" r="170" fill="#6b7079"/><circle cx="320" cy="240" r="95" fill="#2b2f36"/><circle cx="470" cy="150" r="28" fill="#3a3f47"/><path d="M452 172 L430 196 L441 210 L418 236 L428 250 L404 276" stroke="#111" stroke-width="6" fill="none"/><circle cx="430" cy="220" r="72" stroke="#e8a33d" stroke-width="5" fill="none" stroke-dasharray="14 10"/></svg>`,
+		'teardown-wheel.png': `<svg xmlns="http://www.w3.org/2000/svg" width="640" height="480"><rect width="640" height="480" fill="#30343b"/><circle cx="320" cy="240" r="165" fill="#8d939c"/>${blades}<circle cx="320" cy="240" r="36" fill="#5d636c"/></svg>`
+	};
+	const files = await Promise.all(Object.entries(svgs).map(async ([name, svg]) => ({ name, bytes: new Uint8Array(await sharp(Buffer.from(svg)).png().toBuffer()) })));
+	const stored = await storePhotos(files);
+	if (!stored.ok) throw new Error(stored.message);
+	return stored.photos;
 }
 
 const STATION_FOR: Partial<Record<ActionName, string>> = {
@@ -173,6 +196,20 @@ export function seedCustomerOrders(tx: Tx, ctx: Ctx): { orders: number } {
 			.returning({ id: quote.id })
 			.get();
 		lines.forEach((l, n) => tx.insert(quoteLine).values({ ...l, quoteId: q.id, sortOrder: n }).run());
+		if (i === 0 && ctx.photos?.length) {
+			const takenAt = events.find((e) => e.action === 'accept')!.at as Date;
+			ctx.photos.forEach((p, n) => {
+				const photo = tx
+					.insert(unitPhoto)
+					.values({ unitId: u.id, sha256: p.sha256, mime: p.mime, bytes: p.bytes, width: p.width, height: p.height, originalName: p.originalName, userId: ctx.tech.id, at: takenAt })
+					.returning({ id: unitPhoto.id })
+					.get();
+				if (n === 0) {
+					const caption = 'Crack found next to the wastegate port (circled): the housing is replaced, see the quote.';
+					tx.insert(unitPhotoShare).values({ photoId: photo.id, orderId: order.id, shared: true, caption, userId: ctx.office.id, at: new Date(quoteAt) }).run();
+				}
+			});
+		}
 	});
 	return { orders: orders.length };
 }

@@ -13,7 +13,7 @@ import { hashPassword } from './auth';
 import type { Db } from './db';
 import { allocateSerials } from './units';
 import { demoBuildRecords } from './seed-balance';
-import { seedCustomerOrders } from './seed-customer';
+import { demoTeardownPhotos, seedCustomerOrders } from './seed-customer';
 import { seedIntakeDemo } from './seed-intake';
 import { seedLeadBoard } from './seed-lead';
 import { seedBoards } from './seed-boards';
@@ -116,6 +116,8 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 	const lotCount = options.lots ?? 15;
 	const hashes = new Map<string, string>();
 	for (const u of DEMO_USERS) if (!hashes.has(u.password)) hashes.set(u.password, await hashPassword(u.password));
+	// photo files are written before the rows that point at them, as on the floor
+	const photos = await demoTeardownPhotos();
 
 	return db.transaction((tx) => {
 		const userIds = DEMO_USERS.map((u) => {
@@ -261,7 +263,7 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 				events += rows.length;
 			}
 		}
-		seedCustomerOrders(tx, { now, random, shopName: DEMO_SHOP, office, tech: techs[0], stationIds, modelIds });
+		seedCustomerOrders(tx, { now, random, shopName: DEMO_SHOP, office, tech: techs[0], stationIds, modelIds, photos });
 		seedIntakeDemo(tx);
 		seedLeadBoard(tx, { now, random, leadId: lead.id, officeId: office.id });
 		seedBoards(tx, random);
