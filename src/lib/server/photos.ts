@@ -74,3 +74,23 @@ export function readPhoto(sha256: string, variant: 'original' | 'thumb'): Buffer
 	const path = pathFor(sha256, variant);
 	return existsSync(path) ? readFileSync(path) : null;
 }
+
+/**
+ * A stored photo as an HTTP answer: its own type, never sniffed, never run as a document.
+ * `cacheControl` says how long a browser may keep it (staff: forever, by hash; customers:
+ * briefly, because sharing can be withdrawn); `extra` adds headers.
+ */
+export function photoResponse(bytes: Buffer, contentType: string, cacheControl: string, extra: Record<string, string> = {}): Response {
+	return new Response(new Uint8Array(bytes), {
+		headers: {
+			'content-type': contentType,
+			'content-length': String(bytes.length),
+			'x-content-type-options': 'nosniff',
+			'content-security-policy': "default-src 'none'; sandbox",
+			'cross-origin-resource-policy': 'same-origin',
+			'content-disposition': 'inline',
+			'cache-control': cacheControl,
+			...extra
+		}
+	});
+}

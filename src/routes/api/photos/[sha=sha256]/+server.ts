@@ -1,7 +1,7 @@
 import { getDb } from '$lib/server/db';
 import { apiError } from '$lib/server/http';
 import { photoMime } from '$lib/server/inspections';
-import { readPhoto } from '$lib/server/photos';
+import { photoResponse, readPhoto } from '$lib/server/photos';
 import type { RequestHandler } from './$types';
 
 /**
@@ -15,15 +15,5 @@ export const GET: RequestHandler = async ({ params, url }) => {
 	const thumb = url.searchParams.get('size') === 'thumb';
 	const bytes = readPhoto(params.sha, thumb ? 'thumb' : 'original');
 	if (!bytes) return apiError(404, 'not_found', 'The photo file is missing from the store.');
-	return new Response(new Uint8Array(bytes), {
-		headers: {
-			'content-type': thumb ? 'image/jpeg' : mime,
-			'content-length': String(bytes.length),
-			'x-content-type-options': 'nosniff',
-			'content-security-policy': "default-src 'none'; sandbox",
-			'cross-origin-resource-policy': 'same-origin',
-			'content-disposition': 'inline',
-			'cache-control': 'private, max-age=31536000, immutable'
-		}
-	});
+	return photoResponse(bytes, thumb ? 'image/jpeg' : mime, 'private, max-age=31536000, immutable');
 };

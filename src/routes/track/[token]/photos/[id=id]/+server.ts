@@ -2,7 +2,7 @@ import { error } from '@sveltejs/kit';
 import { getDb } from '$lib/server/db';
 import { resolveTrackToken } from '$lib/server/track-links';
 import { sharedPhotoFile } from '$lib/server/photo-sharing';
-import { readPhoto } from '$lib/server/photos';
+import { photoResponse, readPhoto } from '$lib/server/photos';
 import { LINK_NOT_VALID, trackPhotoLimiter } from '$lib/server/track-limit';
 import type { RequestHandler } from './$types';
 
@@ -20,18 +20,6 @@ export const GET: RequestHandler = async ({ params, url, getClientAddress }) => 
 	const thumb = url.searchParams.get('size') === 'thumb';
 	const bytes = readPhoto(file.sha256, thumb ? 'thumb' : 'original');
 	if (!bytes) error(404, { message: LINK_NOT_VALID });
-	return new Response(new Uint8Array(bytes), {
-		headers: {
-			'content-type': thumb ? 'image/jpeg' : file.mime,
-			'content-length': String(bytes.length),
-			'x-content-type-options': 'nosniff',
-			'content-security-policy': "default-src 'none'; sandbox",
-			'cross-origin-resource-policy': 'same-origin',
-			'content-disposition': 'inline',
-			'referrer-policy': 'no-referrer',
-			'x-robots-tag': 'noindex',
-			// Sharing can be withdrawn: the browser keeps it for itself only, and asks again soon.
-			'cache-control': 'private, max-age=300'
-		}
-	});
+	// Sharing can be withdrawn: the browser keeps it for itself only, and asks again soon.
+	return photoResponse(bytes, thumb ? 'image/jpeg' : file.mime, 'private, max-age=300', { 'referrer-policy': 'no-referrer', 'x-robots-tag': 'noindex' });
 };
