@@ -34,6 +34,20 @@ test('the owner filters the scrap report by supplier, opens a flagged lot and ex
 	await expect(page.getByTestId('lot-code')).toHaveText(`Lot ${code}`);
 	await expect(page.getByTestId('lot-flag')).toContainText('Above the upper control limit');
 	await expect(page.getByTestId('lot-reasons')).toBeVisible();
+
+	// The lot table sorts on the server: worst scrap rate first, the order kept in the address.
+	await page.goto('/reports/scrap');
+	await page.getByTestId('lot-table').getByRole('link', { name: /^Scrap rate/ }).click();
+	await expect(page).toHaveURL(/sort=rate&dir=asc/);
+	await page.getByTestId('lot-table').getByRole('link', { name: /^Scrap rate/ }).click();
+	await expect(page).toHaveURL(/sort=rate&dir=desc/);
+	await expect(page.getByTestId('lot-table').locator('th[aria-sort="descending"]')).toContainText('Scrap rate');
+	const rates = (await page.getByTestId('lot-row').locator('td:nth-child(9)').allInnerTexts()).map((t) => (t.trim() === '—' ? -1 : parseFloat(t)));
+	expect(rates.length).toBeGreaterThan(1);
+	expect(rates).toEqual([...rates].sort((a, b) => b - a));
+	const bad = await page.request.get('/api/reports/scrap?per=7');
+	expect(bad.status()).toBe(400);
+	expect((await bad.json()).error.message).toContain('Rows per page');
 });
 
 test('a tech cannot open the scrap report or its data', async ({ page }) => {

@@ -19,7 +19,7 @@ import { coreLot, LOT_SOURCES, scrapReason, station, supplier, turboModel, unit,
 import { DEMO_SCRAP_REASONS, DEMO_STATIONS } from '../../src/lib/server/seed';
 import type { ReportFilter } from '../../src/lib/server/reports/filter';
 import { flowReport, DAY_MS } from '../../src/lib/server/reports/flow';
-import { scrapReport } from '../../src/lib/server/reports/scrap';
+import { LOT_SORTS, scrapReport } from '../../src/lib/server/reports/scrap';
 import { setLabourRateCents } from '../../src/lib/server/reports/settings';
 import { warrantyReport } from '../../src/lib/server/reports/warranty';
 
@@ -199,6 +199,32 @@ describe('reports: SQL equals a plain TypeScript recomputation from the events',
 					expect(sql.reasons.reduce((s, r) => s + r.count, 0)).toBe(sql.totals.scrapped);
 					expect(sql.byModel.reduce((s, m) => s + m.scrapped, 0)).toBe(sql.totals.scrapped);
 					expect(sql.byModel.reduce((s, m) => s + m.scrapCostCents, 0)).toBeCloseTo(sql.totals.scrapCostCents, -1);
+					// The lot table a page at a time: for every sort, the pages joined are every lot once,
+					// in that column's order (ties in the order received), with the same totals and signals.
+					const key = (l: (typeof sql.lots)[number], k: (typeof LOT_SORTS)[number]) =>
+						k === 'receivedOn' ? l.receivedOn : k === 'code' ? l.code : k === 'rate' ? (l.scrap.rate ?? -1) : k === 'scrapCost' ? l.scrapCostCents : (l.costPerGoodCents ?? Infinity);
+					const received = sql.lots.map((l) => l.code);
+					for (const sort of LOT_SORTS) {
+						for (const dir of ['asc', 'desc'] as const) {
+							const expected = [...sql.lots]
+								.sort((x, y) => {
+									const a = key(x, sort), c = key(y, sort);
+									return (a < c ? -1 : a > c ? 1 : 0) * (dir === 'asc' ? 1 : -1) || received.indexOf(x.code) - received.indexOf(y.code);
+								})
+								.map((l) => l.code);
+							const first = scrapReport(b.db, filter, { sort, dir, page: 1, per: 2 });
+							expect(first.lotPage.pages).toBe(Math.max(1, Math.ceil(sql.lots.length / 2)));
+							const joined = [first, ...Array.from({ length: first.lotPage.pages - 1 }, (_, i) => scrapReport(b.db, filter, { sort, dir, page: i + 2, per: 2 }))].flatMap((p) => {
+								expect(p.totals).toEqual(sql.totals);
+								expect(p.flagged.total).toBe(sql.lots.filter((l) => l.signal === 'above').length);
+								return p.lots;
+							});
+							expect(joined.map((l) => l.code)).toEqual(expected);
+							for (const l of joined) expect(l).toEqual(sql.lots.find((x) => x.code === l.code));
+							// a page past the end answers the last page
+							expect(scrapReport(b.db, filter, { sort, dir, page: 99, per: 2 }).lotPage.page).toBe(first.lotPage.pages);
+						}
+					}
 					b.db.$client.close();
 				}
 			),

@@ -2,7 +2,7 @@
 import { eq, sql } from 'drizzle-orm';
 import type { DbOrTx } from '../db';
 import { coreLot, turboModel, unit } from '../db/schema';
-import { scrapReport, type LotRow } from './scrap';
+import { ALL_LOTS, scrapReport, type LotRow } from './scrap';
 
 export interface LotReport {
 	lot: LotRow;
@@ -14,7 +14,8 @@ export interface LotReport {
 export function lotReport(db: DbOrTx, code: string): LotReport | null {
 	const found = db.select({ id: coreLot.id, notes: coreLot.notes }).from(coreLot).where(eq(coreLot.code, code)).get();
 	if (!found) return null;
-	const all = scrapReport(db, {});
+	// limits against every lot; the reasons fetched for this one only
+	const all = scrapReport(db, {}, { ...ALL_LOTS, lotId: found.id });
 	const lot = all.lots.find((l) => l.id === found.id);
 	if (!lot) return null;
 	const byModel = db

@@ -50,7 +50,7 @@ export interface LotRow {
 	ucl: number | null;
 	lcl: number | null;
 	signal: PChartSignal;
-	/** For a lot above the upper limit, the reasons behind its scrap, most frequent first; empty otherwise (the lot's page has them all). */
+	/** For a lot above the upper limit, the reasons behind its scrap, most frequent first; empty otherwise (the lot's page has them all). Filled for the rows returned. */
 	reasons: { code: string; label: string; count: number }[];
 }
 
@@ -63,8 +63,39 @@ export interface Breakdown {
 	scrapCostCents: number;
 }
 
+/** How the lot table is cut: sorted by a column, one page of it (or every lot, for an export). */
+export const LOT_SORTS = ['receivedOn', 'code', 'rate', 'scrapCost', 'costPerGood'] as const;
+export type LotSort = (typeof LOT_SORTS)[number];
+export interface LotView {
+	sort: LotSort;
+	dir: 'asc' | 'desc';
+	page: number;
+	/** Rows per page, or every lot. */
+	per: number | 'all';
+	/** Only this lot (the lot's own page); counts and limits are still those of the whole view. */
+	lotId?: number;
+}
+/** Every lot in the order received: what the other reports build on. */
+export const ALL_LOTS: LotView = { sort: 'receivedOn', dir: 'asc', page: 1, per: 'all' };
+/** How many of the latest lots the p-chart draws; the limits and signals use every lot in the view. */
+export const CHART_LOTS = 250;
+
+export interface ChartPoint {
+	code: string;
+	n: number;
+	rate: number | null;
+	ucl: number | null;
+	signal: PChartSignal;
+}
+
 export interface ScrapReport {
 	filter: ReportFilter;
+	/** The lot table's page: `lots` holds its rows; `total` counts every lot in the view. */
+	lotPage: { sort: LotSort; dir: 'asc' | 'desc'; page: number; per: number | 'all'; pages: number; total: number };
+	/** The lots above their upper limit: how many, and the worst few by scrap rate. */
+	flagged: { total: number; worst: { code: string; rate: number }[] };
+	/** The latest lots of the view in the order received, for the p-chart. */
+	chart: ChartPoint[];
 	labourRateCentsPerHour: number;
 	totals: { lots: number; received: number; judged: number; accepted: number; scrapped: number; waiting: number; scrap: RateCI; scrapCostCents: number; lotCostCents: number; costPerGoodCents: number | null };
 	pBar: number | null;
@@ -95,7 +126,7 @@ function modelId(db: DbOrTx, code: string | undefined): number | null | undefine
 	return db.select({ id: turboModel.id }).from(turboModel).where(eq(turboModel.code, code)).get()?.id ?? null;
 }
 
-export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
+export function scrapReport(db: DbOrTx, filter: ReportFilter, view: LotView = ALL_LOTS): ScrapReport {
 	const mId = modelId(db, filter.model);
 	const rate = labourRateCents(db);
 	const lotWhere = lotConditions(filter);
@@ -178,23 +209,6 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 		3,
 		standard
 	);
-	const flaggedIds = base.filter((_, i) => chart.points[i].signal === 'above').map((b) => b.id);
-	const reasonsByLot = new Map<number, { code: string; label: string; count: number }[]>();
-	for (let i = 0; i < flaggedIds.length; i += 500) {
-		const rows = db
-			.select({ lotId: lotScrapReasonTally.lotId, code: lotScrapReasonTally.reasonCode, count: sql<number>`sum(${lotScrapReasonTally.units})` })
-			.from(lotScrapReasonTally)
-			.innerJoin(coreLot, eq(coreLot.id, lotScrapReasonTally.lotId))
-			.where(reasonWhere([inArray(lotScrapReasonTally.lotId, flaggedIds.slice(i, i + 500))]))
-			.groupBy(lotScrapReasonTally.lotId, lotScrapReasonTally.reasonCode)
-			.all();
-		for (const r of rows) {
-			const list = reasonsByLot.get(r.lotId) ?? [];
-			list.push({ code: r.code, label: label(r.code), count: r.count });
-			reasonsByLot.set(r.lotId, list);
-		}
-	}
-	for (const list of reasonsByLot.values()) list.sort((a, b) => b.count - a.count || a.code.localeCompare(b.code));
 	const lots: LotRow[] = base.map((b, i) => {
 		const pt = chart.points[i];
 		return {
@@ -218,9 +232,31 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 			ucl: pt.signal === 'none' ? null : pt.ucl,
 			lcl: pt.signal === 'none' ? null : pt.lcl,
 			signal: pt.signal,
-			reasons: reasonsByLot.get(b.id) ?? []
+			reasons: []
 		};
 	});
+	const shown = cutLots(lots, view);
+
+	// The reasons behind each flagged lot, for the rows returned only.
+	const flaggedIds = shown.rows.filter((l) => l.signal === 'above').map((l) => l.id);
+	const reasonsByLot = new Map<number, { code: string; label: string; count: number }[]>();
+	for (let i = 0; i < flaggedIds.length; i += 500) {
+		const rows = db
+			.select({ lotId: lotScrapReasonTally.lotId, code: lotScrapReasonTally.reasonCode, count: sql<number>`sum(${lotScrapReasonTally.units})` })
+			.from(lotScrapReasonTally)
+			.innerJoin(coreLot, eq(coreLot.id, lotScrapReasonTally.lotId))
+			.where(reasonWhere([inArray(lotScrapReasonTally.lotId, flaggedIds.slice(i, i + 500))]))
+			.groupBy(lotScrapReasonTally.lotId, lotScrapReasonTally.reasonCode)
+			.all();
+		for (const r of rows) {
+			const list = reasonsByLot.get(r.lotId) ?? [];
+			list.push({ code: r.code, label: label(r.code), count: r.count });
+			reasonsByLot.set(r.lotId, list);
+		}
+	}
+	for (const list of reasonsByLot.values()) list.sort((a, b) => b.count - a.count || a.code.localeCompare(b.code));
+	const rows = shown.rows.map((l) => (reasonsByLot.has(l.id) ? { ...l, reasons: reasonsByLot.get(l.id)! } : l));
+	const flagged = lots.filter((l) => l.signal === 'above');
 
 	const totalScrapped = lots.reduce((s, l) => s + l.scrapped, 0);
 	const reasons = [...reasonTotals.entries()]
@@ -285,8 +321,17 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 		filter,
 		labourRateCentsPerHour: rate,
 		totals: { lots: lots.length, ...t, scrap: rateCI(t.scrapped, t.judged), costPerGoodCents: t.accepted ? t.lotCostCents / t.accepted : null },
+		lotPage: { sort: view.sort, dir: view.dir, page: shown.page, per: view.per, pages: shown.pages, total: lots.length },
+		flagged: {
+			total: flagged.length,
+			worst: flagged
+				.sort((a, b) => (b.scrap.rate ?? 0) - (a.scrap.rate ?? 0) || a.code.localeCompare(b.code))
+				.slice(0, 12)
+				.map((l) => ({ code: l.code, rate: l.scrap.rate ?? 0 }))
+		},
+		chart: lots.slice(-CHART_LOTS).map((l) => ({ code: l.code, n: l.judged, rate: l.scrap.rate, ucl: l.ucl, signal: l.signal })),
 		pBar: chart.pBar,
-		lots,
+		lots: rows,
 		reasons,
 		bySupplier: group(
 			(l) => (l.supplierId === null ? 'none' : String(l.supplierId)),
@@ -298,6 +343,24 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter): ScrapReport {
 			(l) => SOURCE_LABEL[l.source]
 		)
 	};
+}
+
+const sortValue = (l: LotRow, k: LotSort): string | number =>
+	k === 'receivedOn' ? l.receivedOn : k === 'code' ? l.code : k === 'rate' ? (l.scrap.rate ?? -1) : k === 'scrapCost' ? l.scrapCostCents : (l.costPerGoodCents ?? Number.POSITIVE_INFINITY);
+
+/**
+ * The rows of the lot table for a view: sorted on the chosen column (ties in the order
+ * received), then one page of them. A page past the end gives the last page.
+ */
+export function cutLots(lots: readonly LotRow[], view: LotView): { rows: LotRow[]; page: number; pages: number } {
+	if (view.lotId !== undefined) return { rows: lots.filter((l) => l.id === view.lotId), page: 1, pages: 1 };
+	const order = lots.map((l, i) => ({ l, i, v: sortValue(l, view.sort) }));
+	const dir = view.dir === 'asc' ? 1 : -1;
+	if (view.sort !== 'receivedOn' || dir !== 1) order.sort((a, b) => (a.v < b.v ? -dir : a.v > b.v ? dir : a.i - b.i));
+	if (view.per === 'all') return { rows: order.map((o) => o.l), page: 1, pages: 1 };
+	const pages = Math.max(1, Math.ceil(lots.length / view.per));
+	const page = Math.min(Math.max(1, view.page), pages);
+	return { rows: order.slice((page - 1) * view.per, page * view.per).map((o) => o.l), page, pages };
 }
 
 export const SOURCE_LABEL: Record<LotSource, string> = {
