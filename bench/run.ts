@@ -279,7 +279,12 @@ async function main() {
 		for (const c of [1, 32]) {
 			rows.push(await run('trivial JSON (/api/health)', c, { path: '/api/health' }));
 			rows.push(await run('scan (POST move)', c, scanRequests(c === 1 ? pool : scanPool32, tech)));
-			if (board) rows.push(await run(`station board (${board})`, c, { path: board, headers: { cookie: tech } }));
+			if (board) {
+				rows.push(await run(`station board (${board})`, c, { path: board, headers: { cookie: tech } }));
+				// a board polling while nothing changed: its ETag back, answered 304 without building the board
+				const etag = (await fetch(`${BASE}${board}`, { headers: { cookie: tech } })).headers.get('etag');
+				if (etag) rows.push(await run('station board, unchanged (If-None-Match → 304)', c, { path: board, headers: { cookie: tech, 'if-none-match': etag } }, '304 answers counted as non-2xx'));
+			}
 			rows.push(await run('unit history (/api/units/[serial])', c, history));
 			if (scrap) rows.push(await run(`scrap report (${scrap})`, c, { path: scrap, headers: { cookie: owner } }));
 		}

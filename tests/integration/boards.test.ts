@@ -55,7 +55,7 @@ const key = () => `boards-key-${++n}-${Date.now()}`;
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 const locals = (role: Role) => ({ user: { ...shop.actors[role], name: `Test ${role}`, email: '', active: true }, session: null }) as any;
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
-const call = (handler: any, args: Record<string, unknown>) => handler(args) as Promise<Response>;
+const call = (handler: any, args: Record<string, unknown>) => handler({ request: new Request('http://localhost/'), ...args }) as Promise<Response>;
 
 function json(url: string, body: unknown, headers: Record<string, string> = {}) {
 	return new Request(url, { method: 'POST', headers: { 'content-type': 'application/json', ...headers }, body: JSON.stringify(body) });
@@ -118,6 +118,29 @@ describe('GET /api/stations/{code}/board', () => {
 		expect(later.waiting.items.find((u) => u.serial === b)?.overdue).toBe(true);
 		expect(board.waiting.items.find((u: { serial: string }) => u.serial === b).overdue).toBe(false);
 		expect((await call(r.board, { params: { code: 'NOPE' } })).status).toBe(404);
+	});
+
+	test('an unchanged board answers 304 to its ETag; any write, here or from another connection, changes it', async () => {
+		const get = (tag?: string) =>
+			call(r.board, { params: { code: 'WASH' }, request: new Request('http://localhost/api/stations/WASH/board', { headers: tag ? { 'if-none-match': tag } : {} }) });
+		const first = await get();
+		expect(first.status).toBe(200);
+		expect(first.headers.get('cache-control')).toBe('private, no-cache');
+		const tag = first.headers.get('etag')!;
+		expect(tag).toMatch(/^W\/".+\.WASH"$/);
+		const again = await get(tag);
+		expect(again.status).toBe(304);
+		expect(await again.text()).toBe('');
+		// a move through the app's own connection
+		const [u] = shop.receive(1);
+		expect((await get(tag)).status).toBe(200); // the intake came from the test's connection
+		const tag2 = (await get()).headers.get('etag')!;
+		expect((await scan(u, 'TEARDOWN-1')).status).toBe(201);
+		const after = await get(tag2);
+		expect(after.status).toBe(200);
+		expect(after.headers.get('etag')).not.toBe(tag2);
+		// another station's tag never matches this one
+		expect((await call(r.board, { params: { code: 'PAINT' }, request: new Request('http://localhost/x', { headers: { 'if-none-match': tag2 } }) })).status).toBe(200);
 	});
 });
 
