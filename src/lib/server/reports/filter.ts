@@ -1,6 +1,7 @@
 /** The filters every owner's report reads from the URL, so a view can be bookmarked and shared. */
 import { z } from 'zod';
 import { LOT_SOURCES } from '../db/schema';
+import { LOT_SORTS } from './scrap';
 
 const day = z
 	.string()
@@ -19,28 +20,28 @@ export const reportFilterSchema = z
 
 export type ReportFilter = z.infer<typeof reportFilterSchema>;
 
-export function reportFilterFromUrl(url: URL) {
+/** The named query parameters that are present and not blank, trimmed. */
+function paramsOf(url: URL, keys: readonly string[]): Record<string, string> {
 	const raw: Record<string, string> = {};
-	for (const key of ['from', 'to', 'supplier', 'model', 'source']) {
+	for (const key of keys) {
 		const v = url.searchParams.get(key);
 		if (v !== null && v.trim() !== '') raw[key] = v.trim();
 	}
-	return reportFilterSchema.safeParse(raw);
+	return raw;
+}
+
+export function reportFilterFromUrl(url: URL) {
+	return reportFilterSchema.safeParse(paramsOf(url, ['from', 'to', 'supplier', 'model', 'source']));
 }
 
 /** The lot table's sort and page, read from the URL beside the filter (`per=all` for an export). */
 export const lotViewSchema = z.object({
-	sort: z.enum(['receivedOn', 'code', 'rate', 'scrapCost', 'costPerGood'], { error: 'Sort by received, lot, rate, scrap cost or per good core.' }).default('receivedOn'),
+	sort: z.enum(LOT_SORTS, { error: 'Sort by received, lot, rate, scrap cost or per good core.' }).default('receivedOn'),
 	dir: z.enum(['asc', 'desc'], { error: 'Direction is asc or desc.' }).default('asc'),
 	page: z.coerce.number({ error: 'Page is a whole number.' }).int('Page is a whole number.').min(1, 'Pages start at 1.').max(1_000_000).default(1),
 	per: z.union([z.literal('all'), z.coerce.number({ error: 'Rows per page: 10 to 500, or all.' }).int().min(10, 'Rows per page: 10 to 500, or all.').max(500, 'Rows per page: 10 to 500, or all.')]).default(50)
 });
 
 export function lotViewFromUrl(url: URL) {
-	const raw: Record<string, string> = {};
-	for (const key of ['sort', 'dir', 'page', 'per']) {
-		const v = url.searchParams.get(key);
-		if (v !== null && v.trim() !== '') raw[key] = v.trim();
-	}
-	return lotViewSchema.safeParse(raw);
+	return lotViewSchema.safeParse(paramsOf(url, ['sort', 'dir', 'page', 'per']));
 }

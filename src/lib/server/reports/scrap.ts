@@ -356,7 +356,7 @@ export function cutLots(lots: readonly LotRow[], view: LotView): { rows: LotRow[
 	if (view.lotId !== undefined) return { rows: lots.filter((l) => l.id === view.lotId), page: 1, pages: 1 };
 	const order = lots.map((l, i) => ({ l, i, v: sortValue(l, view.sort) }));
 	const dir = view.dir === 'asc' ? 1 : -1;
-	if (view.sort !== 'receivedOn' || dir !== 1) order.sort((a, b) => (a.v < b.v ? -dir : a.v > b.v ? dir : a.i - b.i));
+	order.sort((a, b) => (a.v < b.v ? -dir : a.v > b.v ? dir : a.i - b.i));
 	if (view.per === 'all') return { rows: order.map((o) => o.l), page: 1, pages: 1 };
 	const pages = Math.max(1, Math.ceil(lots.length / view.per));
 	const page = Math.min(Math.max(1, view.page), pages);
