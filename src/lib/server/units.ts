@@ -7,6 +7,8 @@ import { randomUUID } from 'node:crypto';
 import type { Role } from '../domain/auth/roles';
 import { ACTION_INFO, isActionName, type ActionName } from '../domain/units/actions';
 import { decide, mainAction, stageAction } from '../domain/units/machine';
+import { eventDataView, type EventDataView } from '../domain/units/event-data';
+import { clip } from '../domain/input/json';
 import { formatSerial, normalizeSerial } from '../domain/units/serial';
 import { STAGE_INFO, nextStage, type Stage, type UnitState } from '../domain/units/states';
 import type { Db, DbOrTx, Tx } from './db';
@@ -15,6 +17,9 @@ import { prepared } from './db/prepared';
 import { publish } from './live';
 import { loadFacts } from './unit-facts';
 import { afterUnitMove } from './rebuild-notify';
+
+/** Moves take notes of up to 1000 characters; a longer stored note is shown cut. */
+const MAX_NOTE_SHOWN = 2000;
 
 export interface Actor {
 	id: string;
@@ -44,7 +49,8 @@ export interface EventView {
 	station: { code: string; name: string } | null;
 	user: { name: string } | null;
 	note: string | null;
-	data: Record<string, unknown> | null;
+	/** The known fields of the move's data, safe to show whatever is stored (see `eventDataView`). */
+	data: EventDataView | null;
 }
 
 export type MoveResult =
@@ -196,8 +202,8 @@ function toEventView(r: {
 		at: r.event.at.toISOString(),
 		station: r.stationCode ? { code: r.stationCode, name: r.stationName ?? r.stationCode } : null,
 		user: r.userName ? { name: r.userName } : null,
-		note: r.event.note,
-		data: r.event.data ?? null
+		note: r.event.note === null ? null : clip(r.event.note, MAX_NOTE_SHOWN),
+		data: eventDataView(r.event.data)
 	};
 }
 

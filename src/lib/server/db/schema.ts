@@ -3,10 +3,11 @@
  * Times are stored as integer milliseconds since the epoch unless the column says otherwise.
  */
 import { sql } from 'drizzle-orm';
-import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
+import { customType, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex, type AnySQLiteColumn } from 'drizzle-orm/sqlite-core';
 import { ROLES } from '../../domain/auth/roles';
 import { STAGES, UNIT_STATES } from '../../domain/units/states';
 import { ACTIONS } from '../../domain/units/actions';
+import { readStoredData } from '../../domain/units/event-data';
 import { CARD_STYLE_KEYS } from '../../domain/cards/card-style';
 import { ORDER_CHANNELS, ORDER_STATUSES } from '../../domain/orders/channels';
 
@@ -190,6 +191,17 @@ export const lotScrapReasonTally = sqliteTable(
 	]
 );
 
+/**
+ * A JSON object in a text column, read without ever throwing: text that is not a JSON object, or
+ * nests too deep, comes back as `{ '~unreadable': '<first characters>' }` (see `readStoredData`),
+ * so a row left by any version of the app cannot break the pages that read it.
+ */
+const storedJson = customType<{ data: Record<string, unknown>; driverData: string }>({
+	dataType: () => 'text',
+	toDriver: (value) => JSON.stringify(value),
+	fromDriver: (value) => readStoredData(value) ?? {}
+});
+
 export const unitEvent = sqliteTable(
 	'unit_event',
 	{
@@ -208,7 +220,7 @@ export const unitEvent = sqliteTable(
 		idempotencyKey: text('idempotency_key').notNull().unique(),
 		note: text('note'),
 		/** JSON: the move's data (verdict, scrap reason, hold reason, ...). */
-		data: text('data', { mode: 'json' }).$type<Record<string, unknown>>()
+		data: storedJson('data')
 	},
 	(t) => [
 		uniqueIndex('unit_event_unit_seq_idx').on(t.unitId, t.seq),
