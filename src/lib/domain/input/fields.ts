@@ -30,6 +30,8 @@ export interface NumberRules {
 	notNumber?: string;
 	min?: number;
 	max?: number;
+	/** The value must be below `max`, not equal to it (angles: 0 to under 360). */
+	belowMax?: boolean;
 	/** The sentence when outside min..max; default "<label>: from <min> to <max>." */
 	range?: string;
 	int?: boolean;
@@ -51,7 +53,7 @@ function numberSchema(label: string, rules: NumberRules) {
 				: `${label}: ${rules.max} or less.`);
 	let n = z
 		.number({ error: (iss) => (iss.input === undefined ? blank : notNumber) })
-		.refine((v) => v >= lo && v <= hi, range);
+		.refine((v) => v >= lo && (rules.belowMax ? v < hi : v <= hi), range);
 	if (rules.int) n = n.refine(Number.isInteger, rules.whole ?? `${label}: a whole number.`);
 	return n;
 }

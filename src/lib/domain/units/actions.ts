@@ -9,6 +9,8 @@ import type { Role } from '../auth/roles';
 import { FLOOR_ROLES, INTAKE_ROLES, STEERING_ROLES } from '../auth/roles';
 import type { Stage, UnitState } from './states';
 import { STAGES } from './states';
+import { FAILURE_MODES } from '../warranty/failure-modes';
+import { strictObject } from '../input/fields';
 
 export const ACTIONS = [
 	'receive',
@@ -39,37 +41,65 @@ const reasonText = z
 	.min(3, 'Give a reason of at least 3 characters.')
 	.max(500, 'Keep the reason under 500 characters.');
 
+const scrapReason = z
+	.string({ error: 'Choose a scrap reason.' })
+	.trim()
+	.min(1, 'Choose a scrap reason.')
+	.max(40, 'That scrap reason code is too long.');
+
+/** Minutes of teardown labour before the verdict (the scrap report costs them); whole minutes, at most a day. */
+const labourMinutes = z
+	.number({ error: 'Give the teardown minutes as a number.' })
+	.int('Give whole minutes.')
+	.min(0, 'Minutes cannot be negative.')
+	.max(24 * 60, 'More than a day of teardown is not plausible.');
+
+/** The verdict data a teardown qualification, the trace-back verdict form or a teardown screen sends. */
+const verdictFields = {
+	labourMinutes: labourMinutes.optional(),
+	failureMode: z.enum(FAILURE_MODES, { error: 'Choose a failure mode from the list.' }).optional(),
+	/** Set by the teardown qualification: the verdict came with a checklist record. */
+	inspected: z.boolean({ error: 'inspected is true or false.' }).optional()
+};
+
+/** A move that carries no data. */
+const nothing = (name: string) => strictObject({}, name);
+
+/**
+ * The data each move takes, exactly: a key a move does not declare is refused with a sentence
+ * naming it, so nothing unexpected is written to the append-only history. The keys listed here
+ * are the ones the station screen, the teardown qualification, the trace-back verdict form, the
+ * lead's and the office's flows and the demo seeders send.
+ */
 export const actionData = {
-	receive: z.object({}).passthrough(),
-	inspect: z.object({}).passthrough(),
-	accept: z.object({}).passthrough(),
-	scrap: z
-		.object({
-			reasonCode: z
-				.string({ error: 'Choose a scrap reason.' })
-				.trim()
-				.min(1, 'Choose a scrap reason.')
-				.max(40, 'That scrap reason code is too long.')
-		})
-		.passthrough(),
-	clean: z.object({}).passthrough(),
-	machine: z.object({}).passthrough(),
-	paint: z.object({}).passthrough(),
-	assemble: z.object({}).passthrough(),
-	balance: z.object({}).passthrough(),
-	pack: z.object({}).passthrough(),
-	ship: z.object({}).passthrough(),
-	hold: z.object({ reason: reasonText }).passthrough(),
-	release: z.object({}).passthrough(),
-	rework: z
-		.object({
+	receive: nothing('A receipt'),
+	inspect: strictObject({ labourMinutes: labourMinutes.optional() }, 'A teardown'),
+	accept: strictObject(verdictFields, 'An accept verdict'),
+	scrap: strictObject({ reasonCode: scrapReason, ...verdictFields }, 'A scrap verdict'),
+	clean: nothing('Cleaning'),
+	machine: nothing('Machining'),
+	paint: nothing('Painting'),
+	assemble: nothing('Assembly'),
+	balance: nothing('Balancing'),
+	pack: nothing('Packing'),
+	ship: nothing('Shipping'),
+	hold: strictObject({ reason: reasonText }, 'A hold'),
+	release: nothing('A release'),
+	rework: strictObject(
+		{
 			toStage: z.enum(STAGES, { error: 'Choose the stage to send it back to.' }),
 			reason: reasonText
-		})
-		.passthrough(),
-	/** A customer's unit sent back unrepaired after a declined quote. */
-	return: z.object({}).passthrough()
+		},
+		'A send-back'
+	),
+	/** A customer's unit sent back unrepaired after a declined quote; the move itself marks it `unrepaired`. */
+	return: nothing('A return unrepaired')
 } satisfies Record<ActionName, z.ZodType>;
+
+/** The data keys a move declares (a form picks only these from what it was sent). */
+export function actionDataKeys(action: ActionName): string[] {
+	return Object.keys(actionData[action].shape);
+}
 
 export interface ActionInfo {
 	name: ActionName;

@@ -107,11 +107,15 @@ export function stageAction(stage: Stage): ActionName {
 	return found;
 }
 
-function fieldErrors(issues: { path: PropertyKey[]; message: string }[]): Record<string, string[]> {
+function fieldErrors(issues: readonly { code?: string; path: PropertyKey[]; message: string; keys?: string[] }[]): Record<string, string[]> {
 	const out: Record<string, string[]> = {};
 	for (const issue of issues) {
-		const key = issue.path.map(String).join('.') || '_';
-		(out[key] ??= []).push(issue.message);
+		// an unknown key is reported under its own name
+		const paths = issue.code === 'unrecognized_keys' && issue.keys ? issue.keys.map((k) => [...issue.path, k]) : [issue.path];
+		for (const path of paths) {
+			const key = path.map(String).join('.') || '_';
+			(out[key] ??= []).push(issue.message);
+		}
 	}
 	return out;
 }

@@ -1,6 +1,6 @@
 import { error, fail } from '@sveltejs/kit';
 import { FLOOR_ROLES } from '$lib/domain/auth/roles';
-import { isActionName, type ActionName } from '$lib/domain/units/actions';
+import { actionDataKeys, isActionName, type ActionName } from '$lib/domain/units/actions';
 import { normalizeSerial } from '$lib/domain/units/serial';
 import { newKey } from '$lib/ids';
 import { getDb } from '$lib/server/db';
@@ -70,8 +70,9 @@ export const actions: Actions = {
 		if (!isActionName(action) || action === 'receive') {
 			return fail(400, { outcome: { ok: false, serial, message: 'Unknown action.' } as Outcome });
 		}
+		// only the fields this move declares (the station's forms send reasonCode, reason and toStage)
 		const data: Record<string, unknown> = {};
-		for (const name of ['reasonCode', 'reason', 'toStage']) {
+		for (const name of ['reasonCode', 'reason', 'toStage'].filter((k) => actionDataKeys(action).includes(k))) {
 			const v = field(form, name);
 			if (v) data[name] = v;
 		}

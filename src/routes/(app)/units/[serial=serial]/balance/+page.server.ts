@@ -1,6 +1,7 @@
 import { error, fail } from '@sveltejs/kit';
 import { FLOOR_ROLES } from '$lib/domain/auth/roles';
 import { newKey } from '$lib/ids';
+import { BALANCE_RUN_KEYS } from '$lib/domain/balance/records';
 import { getDb } from '$lib/server/db';
 import { benchContext, benchStation, recordBalanceRun } from '$lib/server/balance';
 import { applyMove, findUnitView } from '$lib/server/units';
@@ -20,15 +21,19 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 	};
 };
 
-function fields(form: FormData): Record<string, string> {
+/** The form's own fields (the record's, plus the form's controls), each cut to 500 characters; anything else is ignored. */
+function fields(form: FormData, names: readonly string[]): Record<string, string> {
 	const out: Record<string, string> = {};
-	for (const [k, v] of form.entries()) if (typeof v === 'string') out[k] = v.slice(0, 500);
+	for (const k of names) {
+		const v = form.get(k);
+		if (typeof v === 'string') out[k] = v.slice(0, 500);
+	}
 	return out;
 }
 
 export const actions: Actions = {
 	record: async ({ request, params, locals, url }) => {
-		const values = fields(await request.formData());
+		const values = fields(await request.formData(), BALANCE_RUN_KEYS);
 		const db = getDb();
 		const station = benchStation(db, 'balance', url.searchParams.get('station'));
 		const user = locals.user!;

@@ -3,20 +3,25 @@ import { getDb } from '$lib/server/db';
 import { apiError, readJson } from '$lib/server/http';
 import { applyMove, scanAtStation } from '$lib/server/units';
 import { z } from 'zod';
-import { moveRequestSchema } from '$lib/move-request';
+import { MOVE_BODY_LIMITS, idempotencyKeySchema, moveRequestSchema, stationCodeSchema } from '$lib/move-request';
+import { strictObject } from '$lib/domain/input/fields';
 import type { ActionName } from '$lib/domain/units/actions';
 import type { RequestHandler } from './$types';
 
 /** A scan at a station: the station's main move for the unit's state (`mainAction`). */
-const scanRequestSchema = moveRequestSchema.pick({ idempotencyKey: true }).extend({
-	scan: z.literal(true),
-	stationCode: z.string().trim().min(1).max(40, 'Station codes are at most 40 characters.')
-});
+const scanRequestSchema = strictObject(
+	{
+		idempotencyKey: idempotencyKeySchema,
+		scan: z.literal(true, { error: 'A scan says scan: true.' }),
+		stationCode: stationCodeSchema
+	},
+	'A scan'
+);
 
 export const POST: RequestHandler = async ({ params, request, locals }) => {
 	const user = locals.user!;
 	if (request.headers.get('x-spoolyard-scan') === '1') {
-		const scan = await readJson(request, scanRequestSchema);
+		const scan = await readJson(request, scanRequestSchema, MOVE_BODY_LIMITS);
 		if (!scan.ok) return scan.response;
 		const result = scanAtStation(getDb(), { id: user.id, role: user.role }, scan.data.stationCode, params.serial, scan.data.idempotencyKey);
 		if (!result.ok) {
@@ -27,7 +32,7 @@ export const POST: RequestHandler = async ({ params, request, locals }) => {
 		}
 		return json({ unit: result.unit, event: result.event, replayed: result.replayed }, { status: result.status });
 	}
-	const body = await readJson(request, moveRequestSchema);
+	const body = await readJson(request, moveRequestSchema, MOVE_BODY_LIMITS);
 	if (!body.ok) return body.response;
 	const result = applyMove(getDb(), { id: user.id, role: user.role }, {
 		serial: params.serial,
