@@ -148,3 +148,44 @@ describe('assembly readings', () => {
 		expect((await n.json()).error.message).toMatch(/^Radial play: /);
 	});
 });
+
+describe('other numbers on writes', () => {
+	test('a model spec with a blank bearing position or position count is refused; 0 typed is kept', async () => {
+		const { saveSpec } = await import('../../src/lib/server/balance');
+		const { specSchema } = await import('../../src/lib/domain/balance/spec');
+		const { modelSpec } = await import('../../src/lib/server/db/schema');
+		const row = shop.db.select().from(modelSpec).where(eq(modelSpec.modelId, shop.modelId)).get()! as unknown as Record<string, unknown>;
+		const spec = Object.fromEntries(Object.keys(specSchema.shape).map((k) => [k, row[k] === null ? '' : String(row[k])]));
+		const blankBearing = saveSpec(shop.db, shop.actors.owner, 'CH-F46', { ...spec, centreOfMassMm: ' ' }, {});
+		expect(blankBearing).toMatchObject({ ok: false, status: 400, message: 'Centre of mass position: enter a number.' });
+		const blankPositions = saveSpec(shop.db, shop.actors.owner, 'CH-F46', { ...spec, positionsComp: '' }, {});
+		expect(blankPositions).toMatchObject({ ok: false, status: 400, message: 'Compressor positions: enter a number.' });
+		const zero = saveSpec(shop.db, shop.actors.owner, 'CH-F46', { ...spec, positionsComp: '0' }, {});
+		expect(zero.ok).toBe(true);
+	});
+
+	test('a labour rate of spaces is refused, "0" is a rate', async () => {
+		const { labourRateSchema } = await import('../../src/lib/server/reports/settings');
+		const blank = labourRateSchema.safeParse({ ratePerHour: '   ' });
+		expect(blank.success).toBe(false);
+		expect(blank.error?.issues[0]?.message).toBe('Give the labour rate per hour (0 if labour should not be costed).');
+		expect(labourRateSchema.parse({ ratePerHour: '0' })).toEqual({ ratePerHour: 0 });
+	});
+
+	test('teardown minutes of spaces on the trace-back verdict are no minutes, not 0', async () => {
+		const [serial] = shop.receive();
+		expect(applyMove(shop.db, shop.actors.tech, { serial, action: 'inspect', stationCode: 'TEARDOWN-1', idempotencyKey: `${serial}-inspect` }).ok).toBe(true);
+		const page = await import('../../src/routes/(app)/reports/warranty/[serial=serial]/+page.server');
+		const fields = { verdict: 'accept', failureMode: 'other', labourMinutes: '  ', idempotencyKey: `${serial}-verdict`, expectedVersion: '2' };
+		const out = await page.actions.verdict({
+			request: new Request('http://localhost/x', { method: 'POST', body: new URLSearchParams(fields) }),
+			params: { serial },
+			locals: locals('owner')
+		} as never);
+		expect(out).toMatchObject({ done: expect.stringContaining(serial) });
+		const { unitEvent } = await import('../../src/lib/server/db/schema');
+		const u = shop.db.select().from(unit).where(eq(unit.serial, serial)).get()!;
+		const last = shop.db.select().from(unitEvent).where(eq(unitEvent.unitId, u.id)).all().at(-1)!;
+		expect(last.data).toEqual({ failureMode: 'other' });
+	});
+});

@@ -78,7 +78,14 @@ function build(shop: Shop) {
 			if (action === 'rework') Object.assign(data, { toStage: 'clean', reason: 'redo the wash' });
 			if ((action === 'inspect' || action === 'accept' || action === 'scrap') && s.labour !== undefined) data.labourMinutes = s.labour;
 			if ((action === 'accept' || action === 'scrap') && s.mode) data.failureMode = s.mode;
-			const d = decide({ serial: 'SY-00001', state, held, holdReason }, { action, role: 'owner', stationStage: null, data });
+			let d = decide({ serial: 'SY-00001', state, held, holdReason }, { action, role: 'owner', stationStage: null, data });
+			if (!d.ok && 'labourMinutes' in data) {
+				// moves now refuse a labour value that is not whole minutes, but older versions stored any:
+				// such rows stay in the history for ever, and the reports must read them as they are
+				const { labourMinutes, ...rest } = data;
+				const again = decide({ serial: 'SY-00001', state, held, holdReason }, { action, role: 'owner', stationStage: null, data: rest });
+				if (again.ok) d = { ...again, data: { ...again.data, labourMinutes } };
+			}
 			if (!d.ok) continue;
 			t += s.gapMin * 60_000;
 			rows.push({ seq: rows.length + 1, action, toState: d.to, at: t, data: Object.keys(d.data).length ? d.data : null });

@@ -12,6 +12,7 @@ import type { Db, DbOrTx } from './db';
 import { customerOrder, orderLine, turboModel } from './db/schema';
 import { publish } from './live';
 import type { Actor } from './units';
+import { requiredNumber } from '../domain/input/fields';
 
 export interface OrderView {
 	id: number;
@@ -73,7 +74,7 @@ export const orderInputSchema = z.object({
 	dueOn: dateOrEmpty.default(''),
 	notes: z.string().trim().max(500).default(''),
 	lines: z
-		.array(z.object({ model: z.string().trim().min(1, 'Choose a model.'), quantity: z.coerce.number().int('Whole units only.').min(1, 'At least one unit.').max(10_000, 'At most 10000 on a line.') }))
+		.array(z.object({ model: z.string().trim().min(1, 'Choose a model.'), quantity: requiredNumber('Quantity', { blank: 'Give the quantity of each line.', int: true, whole: 'Whole units only.', min: 1, max: 10_000, range: 'Quantity: from 1 to 10000 on a line.' }) }))
 		.min(1, 'An order needs at least one line.')
 		.max(50)
 });

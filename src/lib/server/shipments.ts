@@ -11,12 +11,17 @@ import type { Db, DbOrTx } from './db';
 import { rebuildOrder, shipLocation, shipment, shipmentUnit, turboModel, unit, unitEvent } from './db/schema';
 import { applyMove, type Actor } from './units';
 import { STEERING_ROLES } from '../domain/auth/roles';
+import { optionalNumber } from '../domain/input/fields';
 
 export const newShipmentSchema = z
 	.object({
 		destination: z.enum(['distributor', 'web_order', 'customer'], { error: 'Choose where it goes.' }),
-		locationId: z.coerce.number().int().positive().optional(),
-		orderId: z.coerce.number().int().positive().optional(),
+		locationId: optionalNumber('Depot', { int: true, min: 1, notNumber: 'Choose the depot from the list.', whole: 'Choose the depot from the list.', range: 'Choose the depot from the list.' })
+			.transform((v) => v ?? undefined)
+			.optional(),
+		orderId: optionalNumber('Customer order', { int: true, min: 1, notNumber: 'Choose the customer order from the list.', whole: 'Choose the customer order from the list.', range: 'Choose the customer order from the list.' })
+			.transform((v) => v ?? undefined)
+			.optional(),
 		reference: z.string().trim().max(60).default(''),
 		shipTo: z.string().trim().max(500).default(''),
 		carrier: z.string().trim().min(2, 'Give the carrier.').max(60),

@@ -5,6 +5,7 @@
 import { z } from 'zod';
 import { UNBALANCE_UNITS, type UnbalanceUnit } from './tolerance';
 import type { AllocationMethod, RotorGeometry } from './allocation';
+import { optionalNumber, requiredNumber } from '../input/fields';
 
 export const ALLOCATION_METHODS = ['symmetric', 'lever'] as const satisfies readonly AllocationMethod[];
 export const CORRECTION_MODES = ['add', 'remove'] as const;
@@ -107,14 +108,10 @@ export function geometryOf(s: SpecNumbers): RotorGeometry {
 	};
 }
 
-const num = (label: string, min: number, max: number) =>
-	z.coerce
-		.number({ error: `${label}: enter a number.` })
-		.refine(Number.isFinite, `${label}: enter a number.`)
-		.refine((v) => v >= min && v <= max, `${label}: between ${min} and ${max}.`);
+// a blank field is refused (it is not 0); "0" typed on purpose is a value
+const num = (label: string, min: number, max: number) => requiredNumber(label, { min, max, range: `${label}: between ${min} and ${max}.` });
 
-const optionalNum = (label: string, min: number, max: number) =>
-	z.preprocess((v) => (v === '' || v === null || v === undefined ? null : v), num(label, min, max).nullable());
+const optionalNum = (label: string, min: number, max: number) => optionalNumber(label, { min, max, range: `${label}: between ${min} and ${max}.` });
 
 /** The owner's spec form; cross-field checks say which pair is wrong. */
 export const specSchema = z

@@ -4,16 +4,22 @@
  */
 import { sql, type SQL, type SQLWrapper } from 'drizzle-orm';
 
-/** A numeric JSON field of a `data` column, 0 when missing, not a number or negative. */
+/*
+ * Every JSON function is guarded by json_valid: the history is append-only, so a row that is not
+ * JSON (or nests deeper than SQLite's JSON parser takes) stays for ever and must read as "missing",
+ * never as an error ("malformed JSON") that takes the whole report down. CASE evaluates lazily.
+ */
+
+/** A numeric JSON field of a `data` column, 0 when missing, not a number, negative or the row is not JSON. */
 export function jsonPositiveNumber(column: SQLWrapper, field: string): SQL<number> {
 	const path = `$.${field}`;
-	return sql<number>`(case when json_type(${column}, ${path}) in ('integer', 'real') and json_extract(${column}, ${path}) > 0 then json_extract(${column}, ${path}) else 0 end)`;
+	return sql<number>`(case when not json_valid(${column}) then 0 when json_type(${column}, ${path}) in ('integer', 'real') and json_extract(${column}, ${path}) > 0 then json_extract(${column}, ${path}) else 0 end)`;
 }
 
-/** A text JSON field of a `data` column, or null. */
+/** A text JSON field of a `data` column, or null (also when the row is not JSON). */
 export function jsonText(column: SQLWrapper, field: string): SQL<string | null> {
 	const path = `$.${field}`;
-	return sql<string | null>`(case when json_type(${column}, ${path}) = 'text' then json_extract(${column}, ${path}) end)`;
+	return sql<string | null>`(case when not json_valid(${column}) then null when json_type(${column}, ${path}) = 'text' then json_extract(${column}, ${path}) end)`;
 }
 
 /** The Monday (UTC, YYYY-MM-DD) of the week holding a millisecond timestamp column. */

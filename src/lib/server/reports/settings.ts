@@ -3,14 +3,19 @@ import { eq } from 'drizzle-orm';
 import { z } from 'zod';
 import type { DbOrTx } from '../db';
 import { shopSetting } from '../db/schema';
+import { requiredNumber } from '../../domain/input/fields';
 
 export const LABOUR_RATE_KEY = 'labour_rate_cents_per_hour';
 
 export const labourRateSchema = z.object({
-	ratePerHour: z.coerce
-		.number({ error: 'Give the labour rate as a number.' })
-		.min(0, 'The labour rate cannot be negative.')
-		.max(100_000, 'That labour rate is not plausible (over 100,000 an hour).')
+	// a blank rate is refused (not set to 0); "0" typed on purpose is a rate
+	ratePerHour: requiredNumber('Labour rate', {
+		blank: 'Give the labour rate per hour (0 if labour should not be costed).',
+		notNumber: 'Give the labour rate as a number.',
+		min: 0,
+		max: 100_000,
+		range: 'The labour rate is from 0 to 100,000 an hour.'
+	})
 });
 
 /** Cents per hour; 0 until the owner sets it. */

@@ -52,8 +52,10 @@ export const actions: Actions = {
 		const form = await request.formData();
 		const text = textFrom(form);
 		if (!text) return fail(400, { step: 'error' as const, message: 'Choose the manifest file (CSV) first.' });
-		const expected = Number(form.get('expectedGood'));
-		const result = importManifest(getDb(), locals.user!, lotId, text, mapFrom(form), Number.isInteger(expected) ? expected : -1);
+		// the count the preview showed; a blank or missing count is no count (never 0)
+		const rawExpected = form.get('expectedGood');
+		const expected = typeof rawExpected === 'string' && /^\d{1,6}$/.test(rawExpected.trim()) ? Number(rawExpected.trim()) : -1;
+		const result = importManifest(getDb(), locals.user!, lotId, text, mapFrom(form), expected);
 		const fileName = String(form.get('fileName') ?? '');
 		if (!result.ok) {
 			if (result.preview) return fail(409, { step: 'preview' as const, preview: result.preview, text, fileName, message: result.message });

@@ -6,6 +6,7 @@ import { getDb } from '$lib/server/db';
 import { listScrapReasons } from '$lib/server/scrap-reasons';
 import { applyMove } from '$lib/server/units';
 import type { Actions, PageServerLoad } from './$types';
+import { optionalNumber, requiredNumber } from '$lib/domain/input/fields';
 
 export const load: PageServerLoad = async () => ({ reasons: listScrapReasons(getDb()), formKey: randomUUID() });
 
@@ -14,12 +15,16 @@ const verdictSchema = z
 		verdict: z.enum(['accept', 'scrap'], { error: 'Choose accept or scrap.' }),
 		failureMode: z.enum(FAILURE_MODES, { error: 'Choose the failure mode the teardown found.' }),
 		reasonCode: z.string().trim().optional(),
-		labourMinutes: z.preprocess(
-			(v) => (v === '' || v === undefined ? undefined : v),
-			z.coerce.number({ error: 'Give the teardown minutes as a number.' }).int('Give whole minutes.').min(0, 'Minutes cannot be negative.').max(24 * 60, 'More than a day of teardown is not plausible.').optional()
-		),
+		labourMinutes: optionalNumber('Teardown minutes', {
+			notNumber: 'Give the teardown minutes as a number.',
+			int: true,
+			whole: 'Give whole minutes.',
+			min: 0,
+			max: 24 * 60,
+			range: 'Teardown minutes: from 0 to 1440 (a day).'
+		}),
 		idempotencyKey: z.string().min(8).max(80),
-		expectedVersion: z.coerce.number().int().positive()
+		expectedVersion: requiredNumber('The unit version', { blank: 'The form lost the unit version; reload the page.', int: true, min: 1, range: 'The form lost the unit version; reload the page.' })
 	})
 	.refine((v) => v.verdict !== 'scrap' || !!v.reasonCode, { message: 'Choose a scrap reason.', path: ['reasonCode'] });
 
@@ -38,7 +43,7 @@ export const actions: Actions = {
 		const v = parsed.data;
 		const data: Record<string, unknown> = { failureMode: v.failureMode };
 		if (v.verdict === 'scrap') data.reasonCode = v.reasonCode;
-		if (v.labourMinutes !== undefined) data.labourMinutes = v.labourMinutes;
+		if (v.labourMinutes !== null) data.labourMinutes = v.labourMinutes;
 		const user = locals.user!;
 		const result = applyMove(getDb(), { id: user.id, role: user.role }, {
 			serial: params.serial,
