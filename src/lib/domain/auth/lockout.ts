@@ -74,7 +74,9 @@ export function lockVerdict(state: ThrottleState | null | undefined, now: number
 export function lockDuration(policy: LockoutPolicy, lockNumber: number): number {
 	checkPolicy(policy);
 	nonNegativeInt('The lock number', lockNumber);
-	return Math.min(policy.maxLockMs, policy.lockMs * 2 ** Math.max(0, lockNumber - 1));
+	// 2^(n−1) overflows to Infinity for very many locks: the cap applies (and a first lock of 0 stays 0).
+	const doubled = policy.lockMs === 0 ? 0 : policy.lockMs * 2 ** Math.max(0, lockNumber - 1);
+	return Math.min(policy.maxLockMs, doubled);
 }
 
 /** The state after one more failure at `now`. */

@@ -67,8 +67,10 @@ export function leverShares(a: number, b: number, cm: number): { shareA: number;
  * the same ratio when a difference would overflow (positions near the double range).
  */
 function leverRatio(p: number, q: number, r: number, s: number): number {
-	const v = (p - q) / (r - s);
-	return Number.isFinite(v) ? v : result('The ratio of the distances along the shaft', (p / 2 - q / 2) / (r / 2 - s / 2));
+	const num = p - q;
+	const den = r - s;
+	if (Number.isFinite(num) && Number.isFinite(den)) return result('The ratio of the distances along the shaft', num / den);
+	return result('The ratio of the distances along the shaft', (p / 2 - q / 2) / (r / 2 - s / 2));
 }
 
 /** The rotor's positions, checked: finite numbers, the bearings apart. */

@@ -14,7 +14,7 @@ const LAST_MS = Date.parse('9999-12-31T00:00:00Z');
 
 function toMs(date: string): number {
 	const m = /^(\d{4})-(\d{2})-(\d{2})$/.exec(date);
-	if (!m) throw new RangeError(`${JSON.stringify(String(date).slice(0, 40))} is not a date written YYYY-MM-DD.`);
+	if (!m) throw new RangeError(`The date ${JSON.stringify(String(date).slice(0, 40))} is not written YYYY-MM-DD.`);
 	return Date.UTC(Number(m[1]), Number(m[2]) - 1, Number(m[3]));
 }
 
