@@ -66,6 +66,15 @@ export function pBar(samples: readonly PChartSample[]): number | null {
  */
 export type PChartSignal = 'above' | 'below' | 'within' | 'too_few' | 'none';
 
+/** The signal in words, for tables, exports and screen readers. */
+export const PCHART_SIGNAL_LABEL: Record<PChartSignal, string> = {
+	above: 'Above the upper control limit',
+	below: 'Below the lower control limit',
+	within: 'Within control limits',
+	too_few: 'Too few cores to judge',
+	none: 'No verdicts yet'
+};
+
 export interface PChartPoint extends PChartLimits {
 	p: number | null;
 	signal: PChartSignal;
