@@ -10,7 +10,7 @@
  * the key for the longest lock.
  */
 
-import { finite, nonNegative, nonNegativeInt, positiveInt } from '../numbers';
+import { instantMs, nonNegative, nonNegativeInt, positiveInt } from '../numbers';
 
 export interface LockoutPolicy {
 	/** Failures within the window that lock the key. */
@@ -58,14 +58,14 @@ function checkState(s: ThrottleState | null | undefined): void {
 	if (s === null || s === undefined) return;
 	if (typeof s !== 'object') throw new RangeError('The throttle state is not a record.');
 	nonNegativeInt('The failures counted', s.failures);
-	finite('The start of the window', s.windowStart);
-	finite('The end of the lock', s.lockedUntil);
+	instantMs('The start of the window', s.windowStart);
+	instantMs('The end of the lock', s.lockedUntil);
 	nonNegativeInt('The locks so far', s.locks);
 	nonNegativeInt('The failures in a row', s.consecutive);
 }
 
 export function lockVerdict(state: ThrottleState | null | undefined, now: number): LockVerdict {
-	finite('The time', now);
+	instantMs('The time', now);
 	checkState(state);
 	if (!state || state.lockedUntil <= now) return { locked: false };
 	return { locked: true, retryAfterMs: state.lockedUntil - now };
@@ -81,7 +81,7 @@ export function lockDuration(policy: LockoutPolicy, lockNumber: number): number 
 
 /** The state after one more failure at `now`. */
 export function afterFailure(state: ThrottleState | null | undefined, now: number, policy: LockoutPolicy): ThrottleState {
-	finite('The time', now);
+	instantMs('The time', now);
 	checkState(state);
 	checkPolicy(policy);
 	const locks = state?.locks ?? 0;

@@ -50,7 +50,7 @@ export interface Evaluation {
 	corrections: PlaneCorrection[];
 }
 
-/** The spec's numbers, checked: each finite, masses, speeds and radii above 0, positions whole. */
+/** The spec's numbers, checked: each finite; masses, speeds, radii and diameters above 0; positions whole; plays 0 or more. */
 export function checkSpec(spec: SpecNumbers): SpecNumbers {
 	if (typeof spec !== 'object' || spec === null) throw new RangeError('The balance spec is missing.');
 	positive('The rotor mass', spec.rotorMassKg);
@@ -65,6 +65,17 @@ export function checkSpec(spec: SpecNumbers): SpecNumbers {
 	nonNegativeInt('The number of turbine positions', spec.positionsTurb);
 	oneOf('The unbalance unit', spec.unbalanceUnit, ['g', 'mg', 'g_mm', 'mg_mm', 'oz_in'] as const);
 	oneOf('The correction mode', spec.correctionMode, ['add', 'remove'] as const);
+	positive('The inducer diameter', spec.inducerMm);
+	positive('The exducer diameter', spec.exducerMm);
+	positive('The tip-speed limit', spec.tipSpeedLimitMs);
+	if (spec.wastegateMinKpa !== null) finite('The wastegate minimum', spec.wastegateMinKpa);
+	if (spec.wastegateMaxKpa !== null) finite('The wastegate maximum', spec.wastegateMaxKpa);
+	for (const [k, label] of [
+		['endPlayMinMm', 'The end play minimum'],
+		['endPlayMaxMm', 'The end play maximum'],
+		['radialPlayMinMm', 'The radial play minimum'],
+		['radialPlayMaxMm', 'The radial play maximum']
+	] as const) nonNegative(label, spec[k]);
 	return spec;
 }
 

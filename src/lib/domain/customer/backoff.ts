@@ -20,5 +20,7 @@ export function retryDelayMs(attempts: number, policy: BackoffPolicy = MAIL_BACK
 	nonNegative('The longest delay', policy.capMs);
 	positiveInt('The number of tries', policy.maxAttempts);
 	if (attempts >= policy.maxAttempts) return null;
-	return Math.min(policy.capMs, policy.baseMs * 2 ** Math.max(0, attempts - 1));
+	// 2^(n−1) overflows to Infinity for very many tries: the cap applies (and a first delay of 0 stays 0).
+	const doubled = policy.baseMs === 0 ? 0 : policy.baseMs * 2 ** Math.max(0, attempts - 1);
+	return Math.min(policy.capMs, doubled);
 }
