@@ -201,6 +201,15 @@ describe('reports: SQL equals a plain TypeScript recomputation from the events',
 					const sorted = sql.lots.map((l) => ref.find((x) => x.code === l.code)!);
 					const chart = pChart(sorted.map((r) => ({ n: r.judged, defects: r.scrapped })), 3, centre);
 					expect(sql.lots.map((l) => l.signal)).toEqual(chart.points.map((p) => p.signal));
+					// A lot with verdicts whose expected scrap n·p̄ is under one core is too few to judge
+					// (common practice), worked out here without the p-chart module; never flagged, never within.
+					const refCentre = filter.supplier ? centre : (() => {
+						const j = ref.reduce((s, r) => s + r.judged, 0);
+						return j ? ref.reduce((s, r) => s + r.scrapped, 0) / j : null;
+					})();
+					const tooFew = sorted.map((r) => r.judged > 0 && refCentre !== null && refCentre !== undefined && r.judged * refCentre < 1);
+					expect(sql.lots.map((l) => l.signal === 'too_few')).toEqual(tooFew);
+					expect(sql.flagged.tooFew).toBe(tooFew.filter(Boolean).length);
 					// Totals and the reason Pareto.
 					expect(sql.totals.scrapped).toBe(ref.reduce((s, r) => s + r.scrapped, 0));
 					expect(sql.reasons.reduce((s, r) => s + r.count, 0)).toBe(sql.totals.scrapped);
@@ -237,6 +246,50 @@ describe('reports: SQL equals a plain TypeScript recomputation from the events',
 			),
 			{ numRuns: 60 }
 		);
+	});
+
+	it('p-chart status per lot: too few cores to judge exactly when n·p̄ < 1, otherwise the limits decide (shops whose cores reach a verdict)', () => {
+		// Steps drawn from inspect / accept / scrap only, so most units get a verdict and lots of every size appear.
+		const verdictShop = shopArb.map((s) => ({ ...s, units: s.units.map((u) => ({ ...u, steps: u.steps.map((st) => ({ ...st, pick: st.pick % 3 })) })) }));
+		const seen = { tooFew: 0, judged: 0, above: 0 };
+		fc.assert(
+			fc.property(verdictShop, fc.option(fc.nat(), { nil: undefined }), (shop, sup) => {
+				const b = build(shop);
+				const filter: ReportFilter = { supplier: sup === undefined ? undefined : b.supplierIds[sup % b.supplierIds.length] };
+				const sql = scrapReport(b.db, filter);
+				const ref = referenceScrap(b, shop.rate, filter);
+				const whole = filter.supplier ? referenceScrap(b, shop.rate, {}) : ref;
+				const j = whole.reduce((t, r) => t + r.judged, 0);
+				const centre = j ? whole.reduce((t, r) => t + r.scrapped, 0) / j : null;
+				for (const l of sql.lots) {
+					const r = ref.find((x) => x.code === l.code)!;
+					// Worked out here from the events, with the limits written out (NIST/SEMATECH §6.3.3.2).
+					const expected =
+						centre === null || r.judged === 0
+							? 'none'
+							: r.judged * centre < 1
+								? 'too_few'
+								: r.scrapped / r.judged > Math.min(1, centre + 3 * Math.sqrt((centre * (1 - centre)) / r.judged))
+									? 'above'
+									: r.scrapped / r.judged < Math.max(0, centre - 3 * Math.sqrt((centre * (1 - centre)) / r.judged))
+										? 'below'
+										: 'within';
+					expect({ lot: l.code, signal: l.signal }).toEqual({ lot: l.code, signal: expected });
+					// only lots above their limit carry reasons in the table
+					expect(l.reasons.length > 0).toBe(l.signal === 'above' && l.scrapped > 0);
+				}
+				expect(sql.flagged.tooFew).toBe(sql.lots.filter((l) => l.signal === 'too_few').length);
+				expect(sql.chart.map((p) => p.signal)).toEqual(sql.lots.slice(-sql.chart.length).map((l) => l.signal));
+				seen.tooFew += sql.flagged.tooFew;
+				seen.judged += sql.lots.filter((l) => l.signal !== 'none' && l.signal !== 'too_few').length;
+				seen.above += sql.flagged.total;
+				b.db.$client.close();
+			}),
+			{ numRuns: 60 }
+		);
+		// The runs reached lots too small to judge and lots judged against their limits.
+		expect(seen.tooFew).toBeGreaterThan(0);
+		expect(seen.judged).toBeGreaterThan(0);
 	});
 
 	it('flow: WIP now, time in stage quantiles, throughput, average WIP, shipped per week and lead time', () => {

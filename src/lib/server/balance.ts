@@ -10,6 +10,7 @@ import { assemblyInput, balanceRunInput, type AssemblyInput, type BalanceRunInpu
 import { DEFAULT_SOURCES, SOURCED_FIELDS, specSchema, type SpecNumbers, type SpecSources } from '../domain/balance/spec';
 import { evaluate, type Evaluation, type RunLike } from '../domain/balance/workbench';
 import type { UnitState } from '../domain/units/states';
+import { badNumberMessage } from './bad-numbers';
 import { zodFields } from './http';
 import type { Actor } from './units';
 import type { Db, DbOrTx } from './db';
@@ -202,14 +203,14 @@ export function recordBalanceRun(
 			const numbers = specNumbers(spec);
 			const reading = { comp: { amount: input.compAmount, angle: input.compAngle }, turb: { amount: input.turbAmount, angle: input.turbAngle } };
 			let evaluation: Evaluation | null = null;
-			if (input.kind !== 'trial') {
-				try {
-					evaluation = evaluate(numbers, earlier.map(runLike), reading);
-				} catch (e) {
-					return { ok: false, status: 400, message: e instanceof Error ? e.message : 'The readings cannot be worked out.' };
-				}
+			let ev: Evaluation;
+			try {
+				if (input.kind !== 'trial') evaluation = evaluate(numbers, earlier.map(runLike), reading);
+				ev = evaluation ?? evaluate(numbers, [], reading);
+			} catch (e) {
+				// A meaningless number (or trial runs that cannot tell the planes apart): the sentence, and nothing stored.
+				return { ok: false, status: 400, message: badNumberMessage(e) ?? 'These readings cannot be worked out; check the amounts and angles.' };
 			}
-			const ev = evaluation ?? evaluate(numbers, [], reading);
 			const lastNo = tx.select({ n: max(balanceRun.runNo) }).from(balanceRun).where(eq(balanceRun.unitId, u.id)).get()?.n ?? 0;
 			const row = tx
 				.insert(balanceRun)
@@ -274,7 +275,14 @@ export function recordAssembly(
 			if (!spec) return { ok: false, status: 409, message: `${serial}: its model has no assembly limits yet; the owner sets them under Models.` };
 			const sid = stationId(tx, opts.stationCode);
 			if (sid === 'unknown') return { ok: false, status: 400, message: `No station ${opts.stationCode}.` };
-			const findings = assemblyFindings(spec, input);
+			let findings: string[];
+			try {
+				findings = assemblyFindings(spec, input);
+			} catch (e) {
+				const message = badNumberMessage(e);
+				if (message === null) throw e;
+				return { ok: false, status: 400, message };
+			}
 			const deviation = findings.length > 0 && input.deviationReason !== null;
 			if (findings.length > 0 && !deviation) {
 				return { ok: false, status: 409, message: `Refused: ${findings.join(' ')}`, fields: { _: findings } };

@@ -38,21 +38,27 @@ function editableDraft(db: Db, orderId: number) {
 	return q ?? db.insert(quote).values({ orderId, status: 'draft' }).returning().get();
 }
 
+/** The quote must still add up in whole cents with this change; refused with a sentence before anything is stored. */
+function checkPriceable(db: Db, lines: Parameters<typeof quoteTotals>[0], coreCents: number): void {
+	try {
+		quoteTotals(lines, getRebuildSettings(db).taxRateBp, coreCents);
+	} catch (e) {
+		if (e instanceof RangeError) throw new QuoteError(`That amount is too large for a quote: ${e.message}`);
+		throw e;
+	}
+}
+
 export function addQuoteLine(db: Db, orderId: number, input: z.infer<typeof lineFormSchema>): void {
 	db.transaction(
 		() => {
 			orderOrThrow(db, orderId);
 			const q = editableDraft(db, orderId);
 			const order = db.select({ n: sql<number>`count(*)` }).from(quoteLine).where(eq(quoteLine.quoteId, q.id)).get()?.n ?? 0;
+			const line = { kind: input.kind, description: input.description, quantityHundredths: parseQuantity(input.quantity)!, unitPriceCents: parseMoney(input.unitPrice)! };
+			const lines = db.select().from(quoteLine).where(eq(quoteLine.quoteId, q.id)).all();
+			checkPriceable(db, [...lines, line], q.coreCents);
 			db.insert(quoteLine)
-				.values({
-					quoteId: q.id,
-					kind: input.kind,
-					description: input.description,
-					quantityHundredths: parseQuantity(input.quantity)!,
-					unitPriceCents: parseMoney(input.unitPrice)!,
-					sortOrder: order
-				})
+				.values({ quoteId: q.id, ...line, sortOrder: order })
 				.run();
 		},
 		{ behavior: 'immediate' }
@@ -75,6 +81,7 @@ export function setQuoteCore(db: Db, orderId: number, coreCents: number, coreNot
 	db.transaction(
 		() => {
 			const q = editableDraft(db, orderId);
+			checkPriceable(db, db.select().from(quoteLine).where(eq(quoteLine.quoteId, q.id)).all(), coreCents);
 			db.update(quote).set({ coreCents, coreNote: coreNote.trim().slice(0, 200) }).where(eq(quote.id, q.id)).run();
 		},
 		{ behavior: 'immediate' }

@@ -10,6 +10,8 @@
  * the key for the longest lock.
  */
 
+import { instantMs, nonNegative, nonNegativeInt, positiveInt } from '../numbers';
+
 export interface LockoutPolicy {
 	/** Failures within the window that lock the key. */
 	maxFailures: number;
@@ -42,17 +44,46 @@ export interface ThrottleState {
 
 export type LockVerdict = { locked: false } | { locked: true; retryAfterMs: number };
 
+function checkPolicy(p: LockoutPolicy): LockoutPolicy {
+	if (typeof p !== 'object' || p === null) throw new RangeError('The lockout needs its policy.');
+	positiveInt('The failures that lock', p.maxFailures);
+	nonNegative('The counting window', p.windowMs);
+	nonNegative('The first lock', p.lockMs);
+	nonNegative('The longest lock', p.maxLockMs);
+	positiveInt('The failures in a row that lock for the longest', p.maxConsecutive);
+	return p;
+}
+
+function checkState(s: ThrottleState | null | undefined): void {
+	if (s === null || s === undefined) return;
+	if (typeof s !== 'object') throw new RangeError('The throttle state is not a record.');
+	nonNegativeInt('The failures counted', s.failures);
+	instantMs('The start of the window', s.windowStart);
+	instantMs('The end of the lock', s.lockedUntil);
+	nonNegativeInt('The locks so far', s.locks);
+	nonNegativeInt('The failures in a row', s.consecutive);
+}
+
 export function lockVerdict(state: ThrottleState | null | undefined, now: number): LockVerdict {
+	instantMs('The time', now);
+	checkState(state);
 	if (!state || state.lockedUntil <= now) return { locked: false };
 	return { locked: true, retryAfterMs: state.lockedUntil - now };
 }
 
 export function lockDuration(policy: LockoutPolicy, lockNumber: number): number {
-	return Math.min(policy.maxLockMs, policy.lockMs * 2 ** Math.max(0, lockNumber - 1));
+	checkPolicy(policy);
+	nonNegativeInt('The lock number', lockNumber);
+	// 2^(n−1) overflows to Infinity for very many locks: the cap applies (and a first lock of 0 stays 0).
+	const doubled = policy.lockMs === 0 ? 0 : policy.lockMs * 2 ** Math.max(0, lockNumber - 1);
+	return Math.min(policy.maxLockMs, doubled);
 }
 
 /** The state after one more failure at `now`. */
 export function afterFailure(state: ThrottleState | null | undefined, now: number, policy: LockoutPolicy): ThrottleState {
+	instantMs('The time', now);
+	checkState(state);
+	checkPolicy(policy);
 	const locks = state?.locks ?? 0;
 	const consecutive = (state?.consecutive ?? 0) + 1;
 	const inWindow = state && now - state.windowStart < policy.windowMs && state.lockedUntil <= now;
@@ -70,6 +101,7 @@ export function afterFailure(state: ThrottleState | null | undefined, now: numbe
 
 /** A sentence for the sign-in form. */
 export function lockMessage(retryAfterMs: number): string {
+	nonNegative('The wait', retryAfterMs);
 	const minutes = Math.max(1, Math.ceil(retryAfterMs / MINUTE));
 	const when = minutes >= 120 ? `${Math.ceil(minutes / 60)} hours` : minutes === 1 ? '1 minute' : `${minutes} minutes`;
 	return `Too many failed sign-ins. Wait ${when} and try again, or ask the owner.`;
@@ -82,6 +114,8 @@ export function lockMessage(retryAfterMs: number): string {
  * guessing at others from the same address. The account's own state is simply cleared.
  */
 export function addressAfterSuccess(state: ThrottleState): ThrottleState {
+	if (typeof state !== 'object' || state === null) throw new RangeError('The throttle state is missing.');
+	checkState(state);
 	return { ...state, consecutive: 0 };
 }
 

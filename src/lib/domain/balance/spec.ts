@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { UNBALANCE_UNITS, type UnbalanceUnit } from './tolerance';
-import type { AllocationMethod, RotorGeometry } from './allocation';
+import { checkGeometry, type AllocationMethod, type RotorGeometry } from './allocation';
 import { optionalNumber, requiredNumber } from '../input/fields';
 
 export const ALLOCATION_METHODS = ['symmetric', 'lever'] as const satisfies readonly AllocationMethod[];
@@ -99,13 +99,14 @@ export const DEFAULT_SOURCES: Required<SpecSources> = {
 };
 
 export function geometryOf(s: SpecNumbers): RotorGeometry {
-	return {
+	if (typeof s !== 'object' || s === null) throw new RangeError('The balance spec is missing.');
+	return checkGeometry({
 		bearingCompMm: s.bearingCompMm,
 		bearingTurbMm: s.bearingTurbMm,
 		centreOfMassMm: s.centreOfMassMm,
 		planeCompMm: s.planeCompMm,
 		planeTurbMm: s.planeTurbMm
-	};
+	});
 }
 
 // a blank field is refused (it is not 0); "0" typed on purpose is a value

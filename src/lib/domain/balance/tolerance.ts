@@ -3,27 +3,34 @@
  * balance quality grade G): U_per = 1000 · G · m / Ω, in g·mm with G in mm/s, m in kg and
  * Ω in rad/s; the specific unbalance e_per = U_per / m in g·mm/kg (= µm).
  */
+import { finite, nonNegative, oneOf, positive, result } from '../numbers';
 
 /** Angular speed in rad/s from a speed in rev/min. */
 export function omegaFromRpm(rpm: number): number {
-	return (2 * Math.PI * rpm) / 60;
+	nonNegative('The speed', rpm);
+	return result('The angular speed', (2 * Math.PI * rpm) / 60);
 }
 
 /** Permissible residual unbalance U_per in g·mm. */
 export function permissibleUnbalance(gradeMmS: number, massKg: number, rpm: number): number {
-	if (!(gradeMmS > 0) || !(massKg > 0) || !(rpm > 0)) throw new RangeError('grade, mass and speed must be positive');
-	return (1000 * gradeMmS * massKg) / omegaFromRpm(rpm);
+	positive('The balance grade G', gradeMmS);
+	positive('The rotor mass', massKg);
+	positive('The speed', rpm);
+	return result('The permissible unbalance', (1000 * gradeMmS * massKg) / omegaFromRpm(rpm));
 }
 
 /** Specific permissible unbalance e_per in g·mm/kg (numerically µm of mass-centre offset). */
 export function specificUnbalance(gradeMmS: number, rpm: number): number {
-	if (!(gradeMmS > 0) || !(rpm > 0)) throw new RangeError('grade and speed must be positive');
-	return (1000 * gradeMmS) / omegaFromRpm(rpm);
+	positive('The balance grade G', gradeMmS);
+	positive('The speed', rpm);
+	return result('The specific unbalance', (1000 * gradeMmS) / omegaFromRpm(rpm));
 }
 
 /** The grade the shop balances to: the chosen grade times its tightening factor (0 < f ≤ 1). */
 export function effectiveGrade(gradeMmS: number, tighteningFactor: number): number {
-	if (!(tighteningFactor > 0) || tighteningFactor > 1) throw new RangeError('the tightening factor is between 0 and 1');
+	positive('The balance grade G', gradeMmS);
+	finite('The tightening factor', tighteningFactor);
+	if (!(tighteningFactor > 0) || tighteningFactor > 1) throw new RangeError(`The tightening factor must be above 0 and at most 1 (got ${tighteningFactor}).`);
 	return gradeMmS * tighteningFactor;
 }
 
@@ -56,6 +63,13 @@ export const UNBALANCE_UNIT_SHORT: Record<UnbalanceUnit, string> = {
 
 /** An amount in `unit` as g·mm; `radiusMm` is needed for masses at the correction radius. */
 export function toGmm(amount: number, unit: UnbalanceUnit, radiusMm = 0): number {
+	nonNegative('The unbalance', amount);
+	oneOf('The unbalance unit', unit, UNBALANCE_UNITS);
+	finite('The correction radius', radiusMm);
+	return result('The unbalance in g·mm', gmmOf(amount, unit, radiusMm));
+}
+
+function gmmOf(amount: number, unit: UnbalanceUnit, radiusMm: number): number {
 	switch (unit) {
 		case 'g_mm':
 			return amount;
@@ -65,7 +79,7 @@ export function toGmm(amount: number, unit: UnbalanceUnit, radiusMm = 0): number
 			return amount * GMM_PER_OZIN;
 		case 'g':
 		case 'mg': {
-			if (!(radiusMm > 0)) throw new RangeError('a mass needs the correction radius');
+			if (!(radiusMm > 0)) throw new RangeError('A mass at the correction radius needs that radius (more than 0 mm).');
 			return (unit === 'g' ? amount : amount / 1000) * radiusMm;
 		}
 	}
@@ -73,6 +87,13 @@ export function toGmm(amount: number, unit: UnbalanceUnit, radiusMm = 0): number
 
 /** g·mm as an amount in `unit`. */
 export function fromGmm(gmm: number, unit: UnbalanceUnit, radiusMm = 0): number {
+	nonNegative('The unbalance', gmm);
+	oneOf('The unbalance unit', unit, UNBALANCE_UNITS);
+	finite('The correction radius', radiusMm);
+	return result(`The unbalance in ${unit}`, amountOf(gmm, unit, radiusMm));
+}
+
+function amountOf(gmm: number, unit: UnbalanceUnit, radiusMm: number): number {
 	switch (unit) {
 		case 'g_mm':
 			return gmm;
@@ -82,7 +103,7 @@ export function fromGmm(gmm: number, unit: UnbalanceUnit, radiusMm = 0): number 
 			return gmm / GMM_PER_OZIN;
 		case 'g':
 		case 'mg': {
-			if (!(radiusMm > 0)) throw new RangeError('a mass needs the correction radius');
+			if (!(radiusMm > 0)) throw new RangeError('A mass at the correction radius needs that radius (more than 0 mm).');
 			const g = gmm / radiusMm;
 			return unit === 'g' ? g : g * 1000;
 		}

@@ -7,6 +7,7 @@
  * plane, that plane's influence coefficient is used; with one in each plane, the full two-plane
  * influence matrix.
  */
+import { finite, list, nonNegative, nonNegativeInt, oneOf, positive } from '../numbers';
 import { allocate, judge, type Allocation, type PlaneKey, type PlaneVerdict } from './allocation';
 import { c, neg, polar, scale, toPolar, type Complex, type Polar } from './complex';
 import { asMode, influence, solveCorrection, splitToPositions, type CorrectionMode, type Matrix2, type SplitPart } from './correction';
@@ -49,7 +50,49 @@ export interface Evaluation {
 	corrections: PlaneCorrection[];
 }
 
+/** The spec's numbers, checked: each finite; masses, speeds, radii and diameters above 0; positions whole; plays 0 or more. */
+export function checkSpec(spec: SpecNumbers): SpecNumbers {
+	if (typeof spec !== 'object' || spec === null) throw new RangeError('The balance spec is missing.');
+	positive('The rotor mass', spec.rotorMassKg);
+	positive('The maximum service speed', spec.maxServiceRpm);
+	positive('The balance grade G', spec.gradeG);
+	positive('The tightening factor', spec.tighteningFactor);
+	oneOf('The allocation method', spec.allocation, ['symmetric', 'lever'] as const);
+	geometryOf(spec);
+	positive('The compressor correction radius', spec.radiusCompMm);
+	positive('The turbine correction radius', spec.radiusTurbMm);
+	nonNegativeInt('The number of compressor positions', spec.positionsComp);
+	nonNegativeInt('The number of turbine positions', spec.positionsTurb);
+	oneOf('The unbalance unit', spec.unbalanceUnit, ['g', 'mg', 'g_mm', 'mg_mm', 'oz_in'] as const);
+	oneOf('The correction mode', spec.correctionMode, ['add', 'remove'] as const);
+	positive('The inducer diameter', spec.inducerMm);
+	positive('The exducer diameter', spec.exducerMm);
+	positive('The tip-speed limit', spec.tipSpeedLimitMs);
+	if (spec.wastegateMinKpa !== null) finite('The wastegate minimum', spec.wastegateMinKpa);
+	if (spec.wastegateMaxKpa !== null) finite('The wastegate maximum', spec.wastegateMaxKpa);
+	for (const [k, label] of [
+		['endPlayMinMm', 'The end play minimum'],
+		['endPlayMaxMm', 'The end play maximum'],
+		['radialPlayMinMm', 'The radial play minimum'],
+		['radialPlayMaxMm', 'The radial play maximum']
+	] as const) nonNegative(label, spec[k]);
+	return spec;
+}
+
+/** A reading, checked: amounts of 0 or more and finite angles in each plane. */
+export function checkReading(name: string, r: Reading): Reading {
+	if (typeof r !== 'object' || r === null || typeof r.comp !== 'object' || r.comp === null || typeof r.turb !== 'object' || r.turb === null) {
+		throw new RangeError(`${name} needs an amount and an angle in each plane.`);
+	}
+	nonNegative(`${name}: the compressor-plane amount`, r.comp.amount);
+	finite(`${name}: the compressor-plane angle`, r.comp.angle);
+	nonNegative(`${name}: the turbine-plane amount`, r.turb.amount);
+	finite(`${name}: the turbine-plane angle`, r.turb.angle);
+	return r;
+}
+
 export function allowance(spec: SpecNumbers): { uPer: number; grade: number; allocation: Allocation } {
+	checkSpec(spec);
 	const grade = effectiveGrade(spec.gradeG, spec.tighteningFactor);
 	const uPer = permissibleUnbalance(grade, spec.rotorMassKg, spec.maxServiceRpm);
 	return { uPer, grade, allocation: allocate(uPer, spec.allocation, geometryOf(spec)) };
@@ -64,7 +107,13 @@ export function influenceFrom(runs: readonly RunLike[]): { h: Matrix2; method: M
 		[c(0), c(1)]
 	];
 	let initialAt = -1;
-	runs.forEach((r, i) => {
+	list<RunLike>('The earlier runs', runs).forEach((r, i) => {
+		if (typeof r !== 'object' || r === null) throw new RangeError(`Run ${i + 1} is missing.`);
+		checkReading(`Run ${i + 1}`, r.reading);
+		if (r.kind === 'trial' && r.trialAmount !== null && r.trialAmount !== undefined) {
+			nonNegative(`Run ${i + 1}: the trial mass`, r.trialAmount);
+			if (r.trialAngle !== null && r.trialAngle !== undefined) finite(`Run ${i + 1}: the trial angle`, r.trialAngle);
+		}
 		if (r.kind === 'initial') initialAt = i;
 	});
 	if (initialAt < 0) return { h: identity, method: 'direct' };
@@ -102,6 +151,7 @@ export function influenceFrom(runs: readonly RunLike[]): { h: Matrix2; method: M
 
 /** Evaluate a reading against the spec, with the influence coefficients from the runs before it. */
 export function evaluate(spec: SpecNumbers, earlier: readonly RunLike[], reading: Reading): Evaluation {
+	checkReading('The reading', reading);
 	const { uPer, grade, allocation } = allowance(spec);
 	const { h, method } = influenceFrom(earlier);
 	const [wComp, wTurb] = solveCorrection(h, [vec(reading.comp), vec(reading.turb)]);
@@ -140,6 +190,8 @@ export function evaluate(spec: SpecNumbers, earlier: readonly RunLike[], reading
 
 /** A tolerance in g·mm shown in the spec's unit for a plane. */
 export function inSpecUnit(gmm: number, spec: SpecNumbers, plane: PlaneKey): number {
+	checkSpec(spec);
+	oneOf('The plane', plane, ['comp', 'turb'] as const);
 	return fromGmm(gmm, spec.unbalanceUnit, plane === 'comp' ? spec.radiusCompMm : spec.radiusTurbMm);
 }
 

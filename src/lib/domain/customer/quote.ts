@@ -3,6 +3,7 @@
  * shop's rate; a core charge (positive) or core credit (negative) is added untaxed.
  * Whether a core charge is taxable differs by place: set it up per local rules (common practice).
  */
+import { list, nonNegativeInt, safeInt } from '../numbers';
 
 export interface QuoteLineInput {
 	kind: 'part' | 'labour';
@@ -24,9 +25,9 @@ export interface QuoteTotals {
 
 /** Round half away from zero, for a value in cents given as numerator/denominator (integers). */
 export function roundDiv(numerator: number, denominator: number): number {
-	if (!Number.isSafeInteger(numerator) || !Number.isSafeInteger(denominator) || denominator <= 0) {
-		throw new RangeError('roundDiv needs safe integers and a positive denominator');
-	}
+	if (!Number.isSafeInteger(numerator)) throw new RangeError(`The amount is too large to work out in whole cents (got ${numerator}).`);
+	safeInt('The divisor', denominator);
+	if (denominator <= 0) throw new RangeError(`The divisor must be more than 0 (got ${denominator}).`);
 	const sign = numerator < 0 ? -1 : 1;
 	const n = Math.abs(numerator);
 	const q = Math.floor(n / denominator);
@@ -36,20 +37,31 @@ export function roundDiv(numerator: number, denominator: number): number {
 
 /** One line's amount: quantity × unit price, rounded to the cent. */
 export function lineCents(line: Pick<QuoteLineInput, 'quantityHundredths' | 'unitPriceCents'>): number {
+	if (typeof line !== 'object' || line === null) throw new RangeError('A quote line needs its quantity and price.');
+	nonNegativeInt('The quantity (in hundredths)', line.quantityHundredths);
+	safeInt('The unit price in cents', line.unitPriceCents);
 	return roundDiv(line.quantityHundredths * line.unitPriceCents, 100);
 }
 
 /** Tax on `amountCents` at `rateBp` basis points (1 bp = 0.01 %), rounded half up to the cent. */
 export function taxCents(amountCents: number, rateBp: number): number {
+	safeInt('The taxable amount in cents', amountCents);
+	nonNegativeInt('The tax rate in basis points', rateBp);
 	return roundDiv(amountCents * rateBp, 10_000);
 }
 
 export function quoteTotals(lines: readonly QuoteLineInput[], taxRateBp: number, coreCents = 0): QuoteTotals {
-	const priced = lines.map((l) => ({ lineCents: lineCents(l), kind: l.kind }));
+	nonNegativeInt('The tax rate in basis points', taxRateBp);
+	safeInt('The core charge in cents', coreCents);
+	const priced = list<QuoteLineInput>('The quote lines', lines).map((l) => ({ lineCents: lineCents(l), kind: l.kind }));
 	const partsCents = priced.filter((l) => l.kind === 'part').reduce((a, l) => a + l.lineCents, 0);
 	const labourCents = priced.filter((l) => l.kind === 'labour').reduce((a, l) => a + l.lineCents, 0);
 	const subtotalCents = partsCents + labourCents;
 	const tax = taxCents(subtotalCents, taxRateBp);
+	const totalCents = subtotalCents + tax + coreCents;
+	for (const [what, v] of [['parts total', partsCents], ['labour total', labourCents], ['total', totalCents]] as const) {
+		if (!Number.isSafeInteger(v)) throw new RangeError(`The quote's ${what} is too large to work out in whole cents.`);
+	}
 	return {
 		lines: priced.map((l) => ({ lineCents: l.lineCents })),
 		partsCents,
@@ -57,7 +69,7 @@ export function quoteTotals(lines: readonly QuoteLineInput[], taxRateBp: number,
 		subtotalCents,
 		taxCents: tax,
 		coreCents,
-		totalCents: subtotalCents + tax + coreCents
+		totalCents
 	};
 }
 
@@ -78,13 +90,16 @@ export function parseQuantity(text: string): number | null {
 	return q > 0 ? q : null;
 }
 
+/** An amount in cents for people; '—' for a value that is not a number. */
 export function formatMoney(cents: number, currency = 'USD'): string {
+	if (typeof cents !== 'number' || !Number.isFinite(cents)) return '—';
 	const sign = cents < 0 ? '−' : '';
-	const abs = Math.abs(cents);
+	const abs = Math.abs(Math.round(cents));
 	const whole = Math.floor(abs / 100).toLocaleString('en-US');
 	return `${sign}${currency === 'USD' ? '$' : `${currency} `}${whole}.${String(abs % 100).padStart(2, '0')}`;
 }
 
 export function formatQuantity(hundredths: number): string {
+	if (typeof hundredths !== 'number' || !Number.isFinite(hundredths)) return '—';
 	return hundredths % 100 === 0 ? String(hundredths / 100) : (hundredths / 100).toFixed(2).replace(/0$/, '');
 }

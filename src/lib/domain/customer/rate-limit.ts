@@ -4,6 +4,8 @@
  * again are dropped so the table does not grow without bound.
  */
 
+import { finite, positive, positiveInt, result } from '../numbers';
+
 export interface LimitVerdict {
 	allowed: boolean;
 	/** Milliseconds until the next request would be allowed (0 when allowed). */
@@ -19,10 +21,14 @@ export class TokenBucketLimiter {
 		readonly refillPerSecond: number,
 		private readonly maxKeys = 10_000
 	) {
-		if (capacity < 1 || refillPerSecond <= 0) throw new RangeError('capacity ≥ 1 and a positive refill rate');
+		finite('The bucket capacity', capacity);
+		if (capacity < 1) throw new RangeError(`The bucket capacity must be at least 1 (got ${capacity}).`);
+		positive('The refill rate', refillPerSecond);
+		positiveInt('The number of keys kept', maxKeys);
 	}
 
 	take(key: string, nowMs: number): LimitVerdict {
+		finite('The time', nowMs);
 		const b = this.buckets.get(key) ?? { tokens: this.capacity, at: nowMs };
 		const elapsed = Math.max(0, nowMs - b.at) / 1000;
 		const tokens = Math.min(this.capacity, b.tokens + elapsed * this.refillPerSecond);
@@ -32,7 +38,7 @@ export class TokenBucketLimiter {
 			return { allowed: true, retryAfterMs: 0, remaining: Math.floor(tokens - 1) };
 		}
 		this.buckets.set(key, { tokens, at: nowMs });
-		return { allowed: false, retryAfterMs: Math.ceil(((1 - tokens) / this.refillPerSecond) * 1000), remaining: 0 };
+		return { allowed: false, retryAfterMs: result('The wait', Math.ceil(((1 - tokens) / this.refillPerSecond) * 1000)), remaining: 0 };
 	}
 
 	get size(): number {

@@ -23,7 +23,9 @@ export function parseMoneyToCents(input: string): number | null {
 	return Number(whole) * 100 + Number(frac.padEnd(2, '0'));
 }
 
+/** Cents as an amount with two decimals; '—' for a value that is not a number. */
 export function formatCents(cents: number): string {
+	if (typeof cents !== 'number' || !Number.isFinite(cents)) return '—';
 	const sign = cents < 0 ? '-' : '';
 	const a = Math.abs(Math.trunc(cents));
 	return `${sign}${Math.floor(a / 100).toLocaleString('en-US')}.${String(a % 100).padStart(2, '0')}`;

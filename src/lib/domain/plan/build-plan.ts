@@ -11,6 +11,7 @@
  * - Suggested build = demand − finished stock − equivalent WIP, rounded up (a part unit cannot
  *   be built), never below zero.
  */
+import { list, nonNegative, nonNegativeInt, result } from '../numbers';
 import { FLOW, type UnitState } from '../units/states';
 import { ses, type SesResult } from './ses';
 
@@ -28,17 +29,21 @@ export const WIP_STATES: readonly UnitState[] = FLOW.slice(0, PACKED);
 
 export function equivalentUnits(wip: readonly { state: UnitState; count: number }[]): number {
 	let sum = 0;
-	for (const w of wip) if (WIP_STATES.includes(w.state)) sum += w.count * completion(w.state);
-	return sum;
+	for (const w of list<{ state: UnitState; count: number }>('The work in progress', wip)) {
+		nonNegativeInt(`Units in ${String(w?.state)}`, w?.count);
+		if (WIP_STATES.includes(w.state)) sum += w.count * completion(w.state);
+	}
+	return result('The equivalent units', sum);
 }
 
 /** Demand per week: order quantities summed into the week each order was placed. */
 export function weeklyDemand(weekStarts: readonly string[], lines: readonly { week: string; quantity: number }[]): number[] {
 	const at = new Map(weekStarts.map((w, i) => [w, i]));
 	const out = weekStarts.map(() => 0);
-	for (const l of lines) {
+	for (const l of list<{ week: string; quantity: number }>('The order lines', lines)) {
+		nonNegative(`The quantity ordered in the week of ${String(l?.week)}`, l?.quantity);
 		const i = at.get(l.week);
-		if (i !== undefined) out[i] += l.quantity;
+		if (i !== undefined) out[i] = result('The weekly demand', out[i] + l.quantity);
 	}
 	return out;
 }
@@ -67,11 +72,15 @@ export interface PlanResult {
 const EPS = 1e-9;
 
 export function planModel(input: PlanInput): PlanResult {
+	if (typeof input !== 'object' || input === null) throw new RangeError('The plan needs its figures.');
+	list<number>('The order history', input.history).forEach((y, i) => nonNegative(`Units ordered in week ${i + 1}`, y));
+	nonNegative('Finished stock', input.finished);
+	nonNegative('Open orders due', input.openDue);
 	const fit = ses(input.history, input.alpha);
 	const forecast = fit.next ?? 0;
 	const demand = Math.max(forecast, input.openDue);
 	const equivalentWip = equivalentUnits(input.wip);
-	const available = input.finished + equivalentWip;
+	const available = result('The units available', input.finished + equivalentWip);
 	const suggested = Math.max(0, Math.ceil(demand - available - EPS));
 	return { fit, forecast, demand, equivalentWip, available, suggested };
 }

@@ -5,6 +5,7 @@
  * one-step errors (y_t − S_t) over t = 2..n; the forecast for the next period is
  * S_{n+1} = α·y_n + (1 − α)·S_n.
  */
+import { finite, list, result } from '../numbers';
 
 export interface SesResult {
 	/** S_t aligned with the series: smoothed[0] is null (there is no S₁), smoothed[t−1] = S_t. */
@@ -19,11 +20,13 @@ export interface SesResult {
 }
 
 export function assertAlpha(alpha: number): void {
-	if (!Number.isFinite(alpha) || alpha <= 0 || alpha > 1) throw new RangeError('The smoothing constant α must be above 0 and at most 1.');
+	finite('The smoothing constant α', alpha);
+	if (alpha <= 0 || alpha > 1) throw new RangeError('The smoothing constant α must be above 0 and at most 1.');
 }
 
 export function ses(series: readonly number[], alpha: number): SesResult {
 	assertAlpha(alpha);
+	list<number>('The series', series).forEach((y, i) => finite(`Value ${i + 1} of the series`, y));
 	const n = series.length;
 	if (n === 0) return { smoothed: [], errors: [], sse: 0, mse: null, next: null };
 	const smoothed: (number | null)[] = [null];
@@ -32,9 +35,9 @@ export function ses(series: readonly number[], alpha: number): SesResult {
 	for (let t = 1; t < n; t++) {
 		// s is S_{t+1} in the handbook's 1-based numbering: the forecast of series[t].
 		smoothed.push(s);
-		errors.push(series[t] - s);
-		s = alpha * series[t] + (1 - alpha) * s;
+		errors.push(result('A one-step forecast error', series[t] - s));
+		s = result('The smoothed value', alpha * series[t] + (1 - alpha) * s);
 	}
-	const sse = errors.reduce((a, e) => a + e * e, 0);
+	const sse = result('The sum of squared errors', errors.reduce((a, e) => a + e * e, 0));
 	return { smoothed, errors, sse, mse: errors.length ? sse / errors.length : null, next: s };
 }

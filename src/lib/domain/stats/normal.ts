@@ -5,6 +5,7 @@
  * cumulative distribution function"), relative error below 1.15e-9, refined with one Halley step
  * on an erfc evaluated by its continued fraction / series so the result is good to about 1e-15.
  */
+import { finite } from '../numbers';
 
 const A = [-3.969683028665376e1, 2.209460984245205e2, -2.759285104469687e2, 1.38357751867269e2, -3.066479806614716e1, 2.506628277459239];
 const B = [-5.447609879822406e1, 1.615858368580409e2, -1.556989798598866e2, 6.680131188771972e1, -1.328068155288572e1];
@@ -14,7 +15,12 @@ const P_LOW = 0.02425;
 
 /** Complementary error function: series for small x, Lentz continued fraction for large x. */
 export function erfc(x: number): number {
-	if (x < 0) return 2 - erfc(-x);
+	finite('The argument of erfc', x);
+	return erfcOf(x);
+}
+
+function erfcOf(x: number): number {
+	if (x < 0) return 2 - erfcOf(-x);
 	if (x < 2) {
 		// erf(x) = 2/√π Σ (−1)^n x^(2n+1) / (n! (2n+1))
 		let sum = x;
@@ -46,16 +52,14 @@ export function erfc(x: number): number {
 
 /** Φ(z), the standard normal CDF. */
 export function normalCdf(z: number): number {
-	return 0.5 * erfc(-z / Math.SQRT2);
+	finite('The z value', z);
+	return 0.5 * erfcOf(-z / Math.SQRT2);
 }
 
-/** Φ⁻¹(p): the z with P(Z ≤ z) = p, for 0 < p < 1. */
+/** Φ⁻¹(p): the z with P(Z ≤ z) = p, for 0 < p < 1 (0 and 1 have no finite quantile). */
 export function normalQuantile(p: number): number {
-	if (!(p > 0 && p < 1)) {
-		if (p === 0) return -Infinity;
-		if (p === 1) return Infinity;
-		throw new RangeError(`normalQuantile needs 0 < p < 1, got ${p}`);
-	}
+	finite('The probability', p);
+	if (!(p > 0 && p < 1)) throw new RangeError(`The probability must be between 0 and 1, both excluded (got ${p}).`);
 	let x: number;
 	if (p < P_LOW) {
 		const q = Math.sqrt(-2 * Math.log(p));
@@ -71,12 +75,16 @@ export function normalQuantile(p: number): number {
 	// One Halley step (Acklam's refinement).
 	const e = normalCdf(x) - p;
 	const u = e * Math.sqrt(2 * Math.PI) * Math.exp((x * x) / 2);
-	return x - u / (1 + (x * u) / 2);
+	const refined = x - u / (1 + (x * u) / 2);
+	// Far in the tails (p below about 1e-300) e^(x²/2) overflows: keep the rational approximation.
+	return Number.isFinite(refined) ? refined : x;
 }
 
 /** The two-sided critical value for a confidence level, e.g. 0.95 → 1.959964. */
 const zMemo = new Map<number, number>();
 export function zFor(confidence: number): number {
+	finite('The confidence level', confidence);
+	if (!(confidence > 0 && confidence < 1)) throw new RangeError(`The confidence level must be between 0 and 1, both excluded (got ${confidence}).`);
 	let z = zMemo.get(confidence);
 	if (z === undefined) {
 		z = normalQuantile(1 - (1 - confidence) / 2);

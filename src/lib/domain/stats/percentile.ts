@@ -3,11 +3,12 @@
  * "Sample quantiles in statistical packages", The American Statistician 50(4), definition 7
  * (h = (n − 1)·q + 1). The median is q = 0.5.
  */
+import { finite, fraction, list, positiveInt } from '../numbers';
 
 /** 1-based ranks of the two order statistics definition 7 interpolates between, and the weight. */
 export function quantileRanks(n: number, q: number): { lo: number; hi: number; weight: number } {
-	if (n <= 0) throw new RangeError('quantile of an empty sample');
-	if (!(q >= 0 && q <= 1)) throw new RangeError(`quantile needs 0 ≤ q ≤ 1, got ${q}`);
+	positiveInt('The sample size', n);
+	fraction('The quantile level', q);
 	const h = (n - 1) * q + 1;
 	const lo = Math.floor(h);
 	return { lo, hi: Math.min(n, lo + 1), weight: h - lo };
@@ -15,11 +16,19 @@ export function quantileRanks(n: number, q: number): { lo: number; hi: number; w
 
 /** Interpolate from the two order statistics (as found by `quantileRanks`). */
 export function interpolate(loValue: number, hiValue: number, weight: number): number {
-	return loValue + weight * (hiValue - loValue);
+	finite('The lower order statistic', loValue);
+	finite('The upper order statistic', hiValue);
+	fraction('The interpolation weight', weight);
+	const span = hiValue - loValue;
+	// Values of opposite sign near the largest double: the difference overflows, the weighted sum does not.
+	if (!Number.isFinite(span)) return loValue * (1 - weight) + hiValue * weight;
+	return loValue + weight * span;
 }
 
 /** Quantile of an unsorted sample; null when empty. */
 export function quantile(values: readonly number[], q: number): number | null {
+	list<number>('The sample', values).forEach((v, i) => finite(`Value ${i + 1} of the sample`, v));
+	fraction('The quantile level', q);
 	if (values.length === 0) return null;
 	const sorted = [...values].sort((a, b) => a - b);
 	const { lo, hi, weight } = quantileRanks(sorted.length, q);

@@ -3,6 +3,7 @@
  * Better than the simple p ± z·√(p(1−p)/n) for small lots and rates near 0 or 1: it never
  * leaves [0, 1] and does not collapse to zero width at 0/n.
  */
+import { atMost, nonNegativeInt } from '../numbers';
 import { zFor } from './normal';
 
 export interface Interval {
@@ -11,11 +12,11 @@ export interface Interval {
 }
 
 export function wilsonInterval(successes: number, n: number, confidence = 0.95): Interval | null {
-	if (!Number.isInteger(successes) || !Number.isInteger(n) || successes < 0 || n < 0 || successes > n) {
-		throw new RangeError(`wilsonInterval needs 0 ≤ successes ≤ n as integers, got ${successes}/${n}`);
-	}
-	if (n === 0) return null;
+	nonNegativeInt('The count', successes);
+	nonNegativeInt('The number of trials', n);
+	atMost('The count', successes, 'The number of trials', n);
 	const z = zFor(confidence);
+	if (n === 0) return null;
 	const p = successes / n;
 	const z2 = z * z;
 	const centre = p + z2 / (2 * n);

@@ -3,7 +3,7 @@
 export const SERIAL_PATTERN = /^SY-\d{5,7}$/;
 
 export function formatSerial(n: number): string {
-	if (!Number.isInteger(n) || n < 1 || n > 9_999_999) throw new RangeError(`serial number out of range: ${n}`);
+	if (typeof n !== 'number' || !Number.isInteger(n) || n < 1 || n > 9_999_999) throw new RangeError(`A serial number is a whole number from 1 to 9,999,999 (got ${String(n)}).`);
 	return `SY-${String(n).padStart(5, '0')}`;
 }
 

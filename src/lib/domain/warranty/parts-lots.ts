@@ -21,6 +21,7 @@
  * same reading as the scrap p-chart (a lot outside what the shop's rate explains); it is a prompt
  * to look at the lot, not proof that the parts are bad.
  */
+import { atMost, fraction, list, nonNegativeInt } from '../numbers';
 import { rateWithInterval } from '../stats/proportion';
 import type { FailureMode } from './failure-modes';
 
@@ -56,13 +57,34 @@ export interface LotVerdict extends LotCounts {
 
 /** The rule itself: is the lot's interval wholly above the shop's rate? */
 export function lotAboveShop(returned: number, shipped: number, shopRate: number | null, confidence = 0.95): boolean {
+	nonNegativeInt('Returned units', returned);
+	nonNegativeInt('Units shipped', shipped);
+	atMost('Returned units', returned, 'Units shipped', shipped);
+	if (shopRate !== null) fraction("The shop's return rate", shopRate);
 	if (shopRate === null || shipped === 0 || returned < MIN_RETURNS_TO_FLAG) return false;
 	const { low } = rateWithInterval(returned, shipped, confidence);
 	return low !== null && low > shopRate;
 }
 
 /** The shop's overall rate and each lot with its interval and flag; flagged lots first. */
+/** A lot's counts, checked: whole numbers, returned ≤ shipped ≤ built. */
+export function checkLotCounts(l: LotCounts): LotCounts {
+	if (typeof l !== 'object' || l === null) throw new RangeError('A parts lot needs its counts.');
+	const name = `Lot ${String(l.lot)}`;
+	nonNegativeInt(`${name}: units built`, l.built);
+	nonNegativeInt(`${name}: units shipped`, l.shipped);
+	nonNegativeInt(`${name}: units returned`, l.returned);
+	atMost(`${name}: units shipped`, l.shipped, 'Units built', l.built);
+	atMost(`${name}: units returned`, l.returned, 'Units shipped', l.shipped);
+	return l;
+}
+
 export function judgeLots(lots: readonly LotCounts[], shop: { shipped: number; returned: number }) {
+	list<LotCounts>('The parts lots', lots).forEach(checkLotCounts);
+	if (typeof shop !== 'object' || shop === null) throw new RangeError("The shop's counts are missing.");
+	nonNegativeInt('Units shipped by the shop', shop.shipped);
+	nonNegativeInt('Units returned to the shop', shop.returned);
+	atMost('Units returned to the shop', shop.returned, 'Units shipped by the shop', shop.shipped);
 	const overall = rateWithInterval(shop.returned, shop.shipped);
 	const judged: LotVerdict[] = lots.map((l) => {
 		const r = rateWithInterval(l.returned, l.shipped);

@@ -49,6 +49,7 @@ export interface LotRow {
 	costPerGoodCents: number | null;
 	ucl: number | null;
 	lcl: number | null;
+	/** The p-chart's word for the lot: above / below / within its limits, `too_few` when n·p̄ < 1 (the limits say nothing about so small a lot), `none` without verdicts. */
 	signal: PChartSignal;
 	/** For a lot above the upper limit, the reasons behind its scrap, most frequent first; empty otherwise (the lot's page has them all). Filled for the rows returned. */
 	reasons: { code: string; label: string; count: number }[];
@@ -92,8 +93,8 @@ export interface ScrapReport {
 	filter: ReportFilter;
 	/** The lot table's page: `lots` holds its rows; `total` counts every lot in the view. */
 	lotPage: { sort: LotSort; dir: 'asc' | 'desc'; page: number; per: number | 'all'; pages: number; total: number };
-	/** The lots above their upper limit: how many, and the worst few by scrap rate. */
-	flagged: { total: number; worst: { code: string; rate: number }[] };
+	/** The lots above their upper limit: how many, and the worst few by scrap rate; and how many lots are too small to judge. */
+	flagged: { total: number; worst: { code: string; rate: number }[]; tooFew: number };
 	/** The latest lots of the view in the order received, for the p-chart. */
 	chart: ChartPoint[];
 	labourRateCentsPerHour: number;
@@ -327,7 +328,8 @@ export function scrapReport(db: DbOrTx, filter: ReportFilter, view: LotView = AL
 			worst: flagged
 				.sort((a, b) => (b.scrap.rate ?? 0) - (a.scrap.rate ?? 0) || a.code.localeCompare(b.code))
 				.slice(0, 12)
-				.map((l) => ({ code: l.code, rate: l.scrap.rate ?? 0 }))
+				.map((l) => ({ code: l.code, rate: l.scrap.rate ?? 0 })),
+			tooFew: lots.filter((l) => l.signal === 'too_few').length
 		},
 		chart: lots.slice(-CHART_LOTS).map((l) => ({ code: l.code, n: l.judged, rate: l.scrap.rate, ucl: l.ucl, signal: l.signal })),
 		pBar: chart.pBar,

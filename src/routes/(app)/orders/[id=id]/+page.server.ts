@@ -11,6 +11,7 @@ import { applyMove } from '$lib/server/units';
 import { pokeOutbox } from '$lib/server/customer-services';
 import { PhotoShareError, orderPhotos, setPhotoShared, shareFormSchema } from '$lib/server/photo-sharing';
 import { INTAKE_ROLES, STEERING_ROLES } from '$lib/domain/auth/roles';
+import { badNumberMessage } from '$lib/server/bad-numbers';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params }) => {
@@ -18,7 +19,13 @@ export const load: PageServerLoad = async ({ params }) => {
 	const found = orderDetail(db, Number(params.id));
 	if (!found) error(404, { message: 'No such rebuild order.' });
 	const settings = getRebuildSettings(db);
-	const draftTotals = found.quote ? quoteTotals(found.quote.lines, found.quote.status === 'draft' ? settings.taxRateBp : found.quote.taxRateBp, found.quote.coreCents) : null;
+	let draftTotals: ReturnType<typeof quoteTotals> | null = null;
+	try {
+		draftTotals = found.quote ? quoteTotals(found.quote.lines, found.quote.status === 'draft' ? settings.taxRateBp : found.quote.taxRateBp, found.quote.coreCents) : null;
+	} catch (e) {
+		// Totals that do not fit in whole cents (a tax rate set out of range): the page still shows the lines.
+		if (badNumberMessage(e) === null) throw e;
+	}
 	return { ...found, settings, draftTotals, photos: orderPhotos(db, found.order.id) };
 };
 
@@ -34,6 +41,8 @@ function act(handler: Handler, roles: readonly string[] = INTAKE_ROLES) {
 			return out ?? { ok: true };
 		} catch (e) {
 			if (e instanceof QuoteError || e instanceof OrderError || e instanceof PhotoShareError) return fail(400, { message: e.message });
+			const bad = badNumberMessage(e);
+			if (bad !== null) return fail(400, { message: bad });
 			throw e;
 		}
 	};

@@ -3,11 +3,13 @@ import { getDb } from '$lib/server/db';
 import { apiError, zodFields } from '$lib/server/http';
 import { reportFilterFromUrl } from '$lib/server/reports/filter';
 import { supplierReport } from '$lib/server/reports/suppliers';
+import { badNumbersAs400 } from '$lib/server/bad-numbers';
 import type { RequestHandler } from './$types';
 
-export const GET: RequestHandler = async ({ url }) => {
-	const parsed = reportFilterFromUrl(url);
-	if (!parsed.success) return apiError(400, 'invalid', parsed.error.issues[0]?.message ?? 'Check the filter.', { fields: zodFields(parsed.error) });
-	const { from, to, model } = parsed.data;
-	return json(supplierReport(getDb(), { from, to, model }));
-};
+export const GET: RequestHandler = async ({ url }) =>
+	badNumbersAs400(() => {
+		const parsed = reportFilterFromUrl(url);
+		if (!parsed.success) return apiError(400, 'invalid', parsed.error.issues[0]?.message ?? 'Check the filter.', { fields: zodFields(parsed.error) });
+		const { from, to, model } = parsed.data;
+		return json(supplierReport(getDb(), { from, to, model }));
+	});
