@@ -109,17 +109,28 @@ export async function stagePhotos(files: readonly PhotoUpload[], maxBytes = MAX_
 }
 
 /**
- * Check and store photos at once, for writers whose rows follow in the same breath and cannot
- * be refused (the demo seed). Request handlers use `stagePhotos` and link after their commit.
+ * Run the synchronous write (one transaction) that references staged photos: when it returns
+ * and `committed(result)` says its rows are in, link the files; in every other case — a
+ * refusal, a replay, an exception — remove them.
+ */
+export function keepIfCommitted<T>(staged: StagedPhotos, write: () => T, committed: (result: T) => boolean = () => true): T {
+	try {
+		const result = write();
+		if (committed(result)) staged.link();
+		return result;
+	} finally {
+		staged.discard();
+	}
+}
+
+/**
+ * Check and store photos at once, for callers whose rows are already in or cannot be refused
+ * (tests that insert the rows themselves). Request handlers stage, then `keepIfCommitted`.
  */
 export async function storePhotos(files: readonly PhotoUpload[], maxBytes = MAX_PHOTO_BYTES): Promise<StoreResult> {
 	const staged = await stagePhotos(files, maxBytes);
 	if (!staged.ok) return staged;
-	try {
-		staged.staged.link();
-	} finally {
-		staged.staged.discard();
-	}
+	keepIfCommitted(staged.staged, () => null);
 	return { ok: true, photos: staged.staged.photos };
 }
 

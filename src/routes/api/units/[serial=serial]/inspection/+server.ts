@@ -5,7 +5,7 @@ import { getDb } from '$lib/server/db';
 import { apiError } from '$lib/server/http';
 import { recordQualification, unitInspections } from '$lib/server/inspections';
 import type { MoveResult } from '$lib/server/units';
-import { stagePhotos, type PhotoUpload } from '$lib/server/photos';
+import { keepIfCommitted, stagePhotos, type PhotoUpload } from '$lib/server/photos';
 import type { RequestHandler } from './$types';
 
 const MAX_REQUEST = MAX_PHOTOS * MAX_PHOTO_BYTES + 1024 * 1024;
@@ -91,13 +91,11 @@ export const POST: RequestHandler = async ({ params, request, locals }) => {
 
 	const staged = await stagePhotos(uploads);
 	if (!staged.ok) return apiError(400, 'invalid', staged.message, { fields: { photos: [staged.message] } });
-	let result: MoveResult;
-	try {
-		result = recordQualification(db, actor, { ...input, photos: staged.staged.photos });
-		if (result.ok && !result.replayed) staged.staged.link();
-	} finally {
-		staged.staged.discard();
-	}
+	const result = keepIfCommitted(
+		staged.staged,
+		() => recordQualification(db, actor, { ...input, photos: staged.staged.photos }),
+		(r) => r.ok && !r.replayed
+	);
 	if (!result.ok) return refused(result);
 	return json({ unit: result.unit, event: result.event, replayed: result.replayed, photos: result.replayed ? 0 : staged.staged.photos.length }, { status: result.status });
 };
