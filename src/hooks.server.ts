@@ -5,7 +5,8 @@ import { checkAccess } from '$lib/server/access';
 import { appAuth } from '$lib/server/app-auth';
 import { getDb } from '$lib/server/db';
 import { startCustomerServices } from '$lib/server/customer-services';
-import { sameOriginApi } from '$lib/server/same-origin';
+import { sameOrigin } from '$lib/server/same-origin';
+import { safeNext } from '$lib/server/safe-next';
 import { responseForThrown } from '$lib/server/hook-errors';
 import { formBodies } from '$lib/server/form-guard';
 
@@ -43,7 +44,8 @@ const authorize: Handle = async ({ event, resolve }) => {
 	if (verdict === 'sign-in') {
 		if (isApi) return json({ error: { code: 'unauthenticated', message: 'Sign in first.' } }, { status: 401 });
 		if (event.request.method !== 'GET') error(401, { message: 'Sign in first.' });
-		redirect(303, `/login?next=${encodeURIComponent(event.url.pathname + event.url.search)}`);
+		const next = safeNext(event.url.pathname + event.url.search, event.url.origin);
+		redirect(303, next ? `/login?next=${encodeURIComponent(next)}` : '/login');
 	}
 	const message =
 		verdict === 'unlisted'
@@ -76,4 +78,4 @@ const theme: Handle = async ({ event, resolve }) => {
 	});
 };
 
-export const handle = sequence(secureHeaders, sameOriginApi, authenticate, authorize, formBodies, theme);
+export const handle = sequence(secureHeaders, sameOrigin, authenticate, authorize, formBodies, theme);

@@ -4,7 +4,7 @@
  * its own connection pool and cookie jar per person.
  */
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process';
-import { copyFileSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { copyFileSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, statSync, symlinkSync, writeFileSync } from 'node:fs';
 import http from 'node:http';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
@@ -84,6 +84,43 @@ export async function freshDemoDb(): Promise<{ dir: string; file: string }> {
 	const file = join(dir, 'shop.db');
 	copyFileSync(await demoTemplate(), file);
 	return { dir, file };
+}
+
+/**
+ * A private copy of the built app, for a test that changes or deletes built files while a
+ * server runs on it (pass `BUILD_DIR: buildDir` to `startServer`); the shared `build/` stays
+ * untouched. The copy's folder links to the project's node_modules, where the built code
+ * finds its packages. Remove `dir` with `cleanup` afterwards.
+ */
+export function copyOfBuild(): { dir: string; buildDir: string } {
+	const dir = mkdtempSync(join(tmpdir(), 'spoolyard-build-'));
+	const buildDir = join(dir, 'build');
+	cpSync(join(ROOT, 'build'), buildDir, { recursive: true });
+	symlinkSync(join(ROOT, 'node_modules'), join(dir, 'node_modules'), 'dir');
+	return { dir, buildDir };
+}
+
+/**
+ * Start `node server.js` expecting it to refuse to start: resolves with its exit code and
+ * output once it exits, or rejects when it is still running (and answering) after `waitMs`.
+ */
+export async function serverRefusal(dbFile: string, port: number, env: Record<string, string | undefined>, waitMs = 30_000): Promise<{ code: number | null; stdout: string; stderr: string }> {
+	const fullEnv: Record<string, string | undefined> = { ...process.env, NODE_ENV: 'production', PORT: String(port), HOST: '127.0.0.1', ORIGIN: `http://127.0.0.1:${port}`, DATABASE_URL: dbFile, INSECURE_COOKIES: '1', ...env };
+	for (const [k, v] of Object.entries(fullEnv)) if (v === undefined) delete fullEnv[k];
+	const child = spawn(process.execPath, ['server.js'], { cwd: ROOT, env: fullEnv as NodeJS.ProcessEnv, stdio: ['ignore', 'pipe', 'pipe'] });
+	let stdout = '';
+	let stderr = '';
+	child.stdout!.on('data', (d) => (stdout += d));
+	child.stderr!.on('data', (d) => (stderr += d));
+	const exited = new Promise<number | null>((r) => child.once('exit', (code) => r(code)));
+	const timer = sleep(waitMs).then(() => 'running' as const);
+	const first = await Promise.race([exited, timer]);
+	if (first === 'running') {
+		child.kill('SIGKILL');
+		await exited;
+		throw new Error(`the server did not refuse to start within ${waitMs} ms:\n${stdout}${stderr}`);
+	}
+	return { code: first, stdout, stderr };
 }
 
 export interface RunningServer {

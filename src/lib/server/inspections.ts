@@ -21,8 +21,13 @@ export interface QualifyInput extends QualificationInput {
  * Record a qualification and make its verdict move (accept or scrap) in one immediate
  * transaction: the inspection, its answers and its photo rows are written inside the move's
  * transaction, so a refused move leaves none of them behind.
+ *
+ * With `dryRun`, everything is checked (the checklist answers, that the unit exists, the
+ * station, the role, the route, the guards) and rolled back: what the move would answer now,
+ * before any photo is written. A request key used before answers as the move would (the first
+ * move again, or 422 for a different one).
  */
-export function recordQualification(db: Db, actor: Actor, input: QualifyInput, now: Date = new Date()): MoveResult {
+export function recordQualification(db: Db, actor: Actor, input: QualifyInput, now: Date = new Date(), options: { dryRun?: boolean } = {}): MoveResult {
 	const list = checklistForSerial(db, input.serial);
 	const checked = checkQualification(list?.items ?? [], input);
 	if (!checked.ok) {
@@ -46,6 +51,7 @@ export function recordQualification(db: Db, actor: Actor, input: QualifyInput, n
 		},
 		now,
 		{
+			dryRun: options.dryRun,
 			before: (tx, row, nextSeq, stationRow) => {
 				const rec = tx
 					.insert(inspection)

@@ -18,11 +18,42 @@ export interface PaymentConfig {
 	fakePort: number;
 }
 
+/** The fake's published keys: good for the local fake only, never for the provider. */
+export const FAKE_SECRET_KEY = 'sk_test_fake_spoolyard_local_only';
+export const FAKE_WEBHOOK_SECRET = 'whsec_fake_spoolyard_local_only';
+
+export class PaymentConfigError extends Error {}
+
+/**
+ * Payment settings from the environment. In provider mode the secret key and the webhook
+ * secret must be the shop's own: a missing, blank or published value stops the server with a
+ * sentence naming the variable (a webhook checked against a public secret would let anyone
+ * mark a quote paid). An unknown PAYMENT_MODE is refused the same way rather than read as fake.
+ */
 export function paymentConfig(env: Record<string, string | undefined> = process.env): PaymentConfig {
+	const rawMode = env.PAYMENT_MODE?.trim() ?? '';
+	if (rawMode !== '' && rawMode !== 'fake' && rawMode !== 'provider') {
+		throw new PaymentConfigError(`PAYMENT_MODE is "${rawMode.slice(0, 40)}"; set it to fake or provider.`);
+	}
+	const mode = rawMode === 'provider' ? 'provider' : 'fake';
+	const secretKey = env.PAYMENT_SECRET_KEY?.trim() || '';
+	const webhookSecret = env.PAYMENT_WEBHOOK_SECRET?.trim() || '';
+	if (mode === 'provider') {
+		const problems: string[] = [];
+		const need = (name: string, value: string, published: string) => {
+			if (!value) problems.push(`${name} is not set`);
+			else if (value === published) problems.push(`${name} is the local fake's published value`);
+		};
+		need('PAYMENT_SECRET_KEY', secretKey, FAKE_SECRET_KEY);
+		need('PAYMENT_WEBHOOK_SECRET', webhookSecret, FAKE_WEBHOOK_SECRET);
+		if (problems.length) {
+			throw new PaymentConfigError(`PAYMENT_MODE=provider needs the shop's own keys from the payment provider: ${problems.join('; ')}.`);
+		}
+	}
 	return {
-		mode: env.PAYMENT_MODE === 'provider' ? 'provider' : 'fake',
-		secretKey: env.PAYMENT_SECRET_KEY ?? 'sk_test_fake_spoolyard_local_only',
-		webhookSecret: env.PAYMENT_WEBHOOK_SECRET ?? 'whsec_fake_spoolyard_local_only',
+		mode,
+		secretKey: secretKey || FAKE_SECRET_KEY,
+		webhookSecret: webhookSecret || FAKE_WEBHOOK_SECRET,
 		fakePort: Number(env.PAYMENT_FAKE_PORT ?? 0)
 	};
 }

@@ -2,32 +2,28 @@
  * Photo storage: files live under the uploads folder (UPLOADS_DIR, default data/uploads),
  * named by the SHA-256 of their bytes, each with a JPEG thumbnail beside it. Nothing a client
  * sends ever becomes part of a path: files are found by a checked 64-hex-digit hash only.
- * Files are written before the rows that point at them, so a refused move leaves at most an
- * unreferenced file (the same bytes reuse it next time), never a row without its file.
+ *
+ * A file is kept only when the write that references it commits. `stagePhotos` checks every
+ * file and writes it under a temporary name (`.incoming-<uuid>` in the uploads folder, on the
+ * same file system so the move into place is a rename); after the transaction that inserts the
+ * rows commits, `link()` renames the files to their hash names; on a refusal or an error
+ * `discard()` removes them. A crash in between leaves only `.incoming-*` files, which
+ * `npm run uploads:sweep` removes once they are a day old, with any file no row points at.
  */
 import { createHash, randomUUID } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import sharp from 'sharp';
 import { checkPhoto, isSha256Hex, MAX_PHOTO_BYTES, type ImageMime } from '../domain/photos/image-type';
+import { INCOMING_PREFIX, uploadsDir } from './upload-paths';
+
+export { INCOMING_PREFIX, uploadsDir };
 
 export const THUMB_WIDTH = 320;
-
-export function uploadsDir(): string {
-	return resolve(process.env.UPLOADS_DIR ?? 'data/uploads');
-}
 
 function pathFor(sha256: string, variant: 'original' | 'thumb'): string {
 	if (!isSha256Hex(sha256)) throw new Error('not a content hash');
 	return join(uploadsDir(), sha256.slice(0, 2), variant === 'thumb' ? `${sha256}.thumb.jpg` : sha256);
-}
-
-function writeOnce(path: string, bytes: Uint8Array) {
-	if (existsSync(path)) return;
-	mkdirSync(resolve(path, '..'), { recursive: true });
-	const tmp = `${path}.${randomUUID()}.tmp`;
-	writeFileSync(tmp, bytes);
-	renameSync(tmp, path);
 }
 
 export interface StoredPhoto {
@@ -41,10 +37,27 @@ export interface StoredPhoto {
 
 export type PhotoUpload = { name: string; bytes: Uint8Array };
 
+/** Photos written under temporary names, waiting for the write that references them. */
+export interface StagedPhotos {
+	photos: StoredPhoto[];
+	/**
+	 * Move the files to their hash names: call right after the transaction that inserted their
+	 * rows committed. A file already there (the same bytes, uploaded before) is replaced by the
+	 * identical copy, which also renews its age for the sweep.
+	 */
+	link(): void;
+	/** Remove whatever was not linked; safe to call more than once and after `link`. */
+	discard(): void;
+}
+
+export type StageResult = { ok: true; staged: StagedPhotos } | { ok: false; message: string };
 export type StoreResult = { ok: true; photos: StoredPhoto[] } | { ok: false; message: string };
 
-/** Check every file first (size, then bytes, then that it decodes), then write them all. */
-export async function storePhotos(files: readonly PhotoUpload[], maxBytes = MAX_PHOTO_BYTES): Promise<StoreResult> {
+/**
+ * Check every file first (size, then bytes, then that it decodes), then write them all under
+ * temporary names. Nothing is written when any file is refused.
+ */
+export async function stagePhotos(files: readonly PhotoUpload[], maxBytes = MAX_PHOTO_BYTES): Promise<StageResult> {
 	const checked: { file: PhotoUpload; mime: ImageMime; width: number | null; height: number | null; thumb: Buffer }[] = [];
 	for (const file of files) {
 		const c = checkPhoto(file.name, file.bytes, maxBytes);
@@ -58,14 +71,67 @@ export async function storePhotos(files: readonly PhotoUpload[], maxBytes = MAX_
 			return { ok: false, message: `${file.name.slice(0, 80) || 'The photo'} could not be read as an image; take it again or choose another file.` };
 		}
 	}
+	const pending: { tmp: string; final: string }[] = [];
+	const discard = () => {
+		for (const p of pending.splice(0)) rmSync(p.tmp, { force: true });
+	};
 	const photos: StoredPhoto[] = [];
-	for (const c of checked) {
-		const sha256 = createHash('sha256').update(c.file.bytes).digest('hex');
-		writeOnce(pathFor(sha256, 'original'), c.file.bytes);
-		writeOnce(pathFor(sha256, 'thumb'), c.thumb);
-		photos.push({ sha256, mime: c.mime, bytes: c.file.bytes.length, width: c.width, height: c.height, originalName: c.file.name.slice(0, 200) });
+	try {
+		if (checked.length) mkdirSync(uploadsDir(), { recursive: true });
+		for (const c of checked) {
+			const sha256 = createHash('sha256').update(c.file.bytes).digest('hex');
+			for (const [variant, bytes] of [['original', c.file.bytes], ['thumb', c.thumb]] as const) {
+				const tmp = join(uploadsDir(), `${INCOMING_PREFIX}${randomUUID()}`);
+				pending.push({ tmp, final: pathFor(sha256, variant) });
+				writeFileSync(tmp, bytes, { flag: 'wx' });
+			}
+			photos.push({ sha256, mime: c.mime, bytes: c.file.bytes.length, width: c.width, height: c.height, originalName: c.file.name.slice(0, 200) });
+		}
+	} catch (e) {
+		discard(); // a full disk or a folder we may not write: nothing half-written stays
+		throw e;
 	}
-	return { ok: true, photos };
+	return {
+		ok: true,
+		staged: {
+			photos,
+			link() {
+				while (pending.length) {
+					const p = pending[0];
+					mkdirSync(resolve(p.final, '..'), { recursive: true });
+					renameSync(p.tmp, p.final);
+					pending.shift();
+				}
+			},
+			discard
+		}
+	};
+}
+
+/**
+ * Run the synchronous write (one transaction) that references staged photos: when it returns
+ * and `committed(result)` says its rows are in, link the files; in every other case — a
+ * refusal, a replay, an exception — remove them.
+ */
+export function keepIfCommitted<T>(staged: StagedPhotos, write: () => T, committed: (result: T) => boolean = () => true): T {
+	try {
+		const result = write();
+		if (committed(result)) staged.link();
+		return result;
+	} finally {
+		staged.discard();
+	}
+}
+
+/**
+ * Check and store photos at once, for callers whose rows are already in or cannot be refused
+ * (tests that insert the rows themselves). Request handlers stage, then `keepIfCommitted`.
+ */
+export async function storePhotos(files: readonly PhotoUpload[], maxBytes = MAX_PHOTO_BYTES): Promise<StoreResult> {
+	const staged = await stagePhotos(files, maxBytes);
+	if (!staged.ok) return staged;
+	keepIfCommitted(staged.staged, () => null);
+	return { ok: true, photos: staged.staged.photos };
 }
 
 /** The stored bytes of a photo or its thumbnail, or null. `sha256` must already be checked. */

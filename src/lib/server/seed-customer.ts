@@ -12,7 +12,7 @@ import { quoteTotals } from '../domain/customer/quote';
 import type { Tx } from './db';
 import { coreLot, quote, quoteLine, rebuildOrder, rebuildSetting, scrapReason, shipLocation, unit, unitEvent, unitPhoto, unitPhotoShare } from './db/schema';
 import sharp from 'sharp';
-import { storePhotos, type StoredPhoto } from './photos';
+import { stagePhotos, type StagedPhotos, type StoredPhoto } from './photos';
 import { queueNotice } from './rebuild-notify';
 import { issueTrackLink } from './track-links';
 import { allocateSerials } from './units';
@@ -41,7 +41,7 @@ interface Ctx {
  * Two drawn stand-ins for teardown photos (a housing with a marked crack, a compressor wheel),
  * stored the way the floor stores camera uploads. Drawings, not pictures of any real part.
  */
-export async function demoTeardownPhotos(): Promise<StoredPhoto[]> {
+export async function demoTeardownPhotos(): Promise<StagedPhotos> {
 	const blades = Array.from({ length: 12 }, (_, k) => {
 		const a = (k * Math.PI) / 6;
 		return `<path d="M320 240 L${(320 + 150 * Math.cos(a)).toFixed(1)} ${(240 + 150 * Math.sin(a)).toFixed(1)}" stroke="#c9ced6" stroke-width="10" stroke-linecap="round"/>`;
@@ -51,9 +51,9 @@ export async function demoTeardownPhotos(): Promise<StoredPhoto[]> {
 		'teardown-wheel.png': `<svg xmlns="http://www.w3.org/2000/svg" width="640" height="480"><rect width="640" height="480" fill="#30343b"/><circle cx="320" cy="240" r="165" fill="#8d939c"/>${blades}<circle cx="320" cy="240" r="36" fill="#5d636c"/></svg>`
 	};
 	const files = await Promise.all(Object.entries(svgs).map(async ([name, svg]) => ({ name, bytes: new Uint8Array(await sharp(Buffer.from(svg)).png().toBuffer()) })));
-	const stored = await storePhotos(files);
+	const stored = await stagePhotos(files);
 	if (!stored.ok) throw new Error(stored.message);
-	return stored.photos;
+	return stored.staged;
 }
 
 const STATION_FOR: Partial<Record<ActionName, string>> = {

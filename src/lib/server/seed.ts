@@ -14,6 +14,7 @@ import type { Db } from './db';
 import { allocateSerials } from './units';
 import { demoBuildRecords } from './seed-balance';
 import { demoTeardownPhotos, seedCustomerOrders } from './seed-customer';
+import { keepIfCommitted } from './photos';
 import { seedIntakeDemo } from './seed-intake';
 import { seedLeadBoard } from './seed-lead';
 import { seedBoards } from './seed-boards';
@@ -116,10 +117,11 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 	const lotCount = options.lots ?? 15;
 	const hashes = new Map<string, string>();
 	for (const u of DEMO_USERS) if (!hashes.has(u.password)) hashes.set(u.password, await hashPassword(u.password));
-	// photo files are written before the rows that point at them, as on the floor
-	const photos = await demoTeardownPhotos();
+	// photo files are staged first and linked once the rows that point at them commit, as on the floor
+	const staged = await demoTeardownPhotos();
+	const photos = staged.photos;
 
-	return db.transaction((tx) => {
+	return keepIfCommitted(staged, () => db.transaction((tx) => {
 		const userIds = DEMO_USERS.map((u) => {
 			const id = randomUUID();
 			tx.insert(user).values({ id, name: u.name, email: u.email, role: u.role, passwordHash: hashes.get(u.password)! }).run();
@@ -273,6 +275,6 @@ export async function seedDemo(db: Db, options: SeedOptions = {}): Promise<{ use
 		void units;
 		void events;
 		return { users: userIds.length, lots: count(coreLot), units: count(unit), events: count(unitEvent) };
-	});
+	}));
 }
 

@@ -225,6 +225,8 @@ export function getUnitWithHistory(db: DbOrTx, serial: string): { unit: UnitView
  */
 export interface MoveHooks {
 	before?: (tx: Tx, unitRow: Unit, nextSeq: number, stationRow: typeof station.$inferSelect | undefined) => void;
+	/** Decide the move and roll everything back: what the move would answer, nothing written, nothing published. */
+	dryRun?: boolean;
 }
 
 class RolledBack extends Error {
@@ -235,7 +237,7 @@ class RolledBack extends Error {
 
 export function applyMove(db: Db, actor: Actor, input: MoveInput, now: Date = new Date(), hooks: MoveHooks = {}): MoveResult {
 	const result = applyMoveInTransaction(db, actor, input, now, hooks);
-	if (result.ok && !result.replayed) {
+	if (result.ok && !result.replayed && !hooks.dryRun) {
 		publish({
 			topic: 'unit',
 			kind: result.event.action,
@@ -258,7 +260,7 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 		return db.transaction(
 			(tx): MoveResult => {
 				const r = moveBody(tx);
-				if (!r.ok && hooks.before) throw new RolledBack(r);
+				if ((!r.ok && hooks.before) || hooks.dryRun) throw new RolledBack(r);
 				return r;
 			},
 			{ behavior: 'immediate' }

@@ -7,14 +7,11 @@ import { getDb } from '$lib/server/db';
 import { recordSignInFailure, recordSignInSuccess, signInLocked } from '$lib/server/sign-in-throttle';
 import { lockMessage } from '$lib/domain/auth/lockout';
 import { signInSchema } from '$lib/schemas';
+import { safeNext } from '$lib/server/safe-next';
 import type { Actions, PageServerLoad } from './$types';
 
-function safeNext(next: string | null): string | null {
-	return next && next.startsWith('/') && !next.startsWith('//') ? next : null;
-}
-
 export const load: PageServerLoad = async ({ locals, url }) => {
-	if (locals.user) redirect(303, safeNext(url.searchParams.get('next')) ?? homeFor(locals.user.role));
+	if (locals.user) redirect(303, safeNext(url.searchParams.get('next'), url.origin) ?? homeFor(locals.user.role));
 	return { form: await superValidate(zod4(signInSchema)) };
 };
 
@@ -42,6 +39,6 @@ export const actions: Actions = {
 		if (locals.session) await auth.invalidate(locals.session.id);
 		const { cookie } = await auth.createSession(found.id);
 		cookies.set(cookie.name, cookie.value, cookie.attributes);
-		redirect(303, safeNext(url.searchParams.get('next')) ?? homeFor(found.role));
+		redirect(303, safeNext(url.searchParams.get('next'), url.origin) ?? homeFor(found.role));
 	}
 };

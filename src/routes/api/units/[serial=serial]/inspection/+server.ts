@@ -4,7 +4,8 @@ import { checklistForSerial } from '$lib/server/checklists';
 import { getDb } from '$lib/server/db';
 import { apiError } from '$lib/server/http';
 import { recordQualification, unitInspections } from '$lib/server/inspections';
-import { storePhotos, type PhotoUpload } from '$lib/server/photos';
+import type { MoveResult } from '$lib/server/units';
+import { keepIfCommitted, stagePhotos, type PhotoUpload } from '$lib/server/photos';
 import type { RequestHandler } from './$types';
 
 const MAX_REQUEST = MAX_PHOTOS * MAX_PHOTO_BYTES + 1024 * 1024;
@@ -16,8 +17,12 @@ export const GET: RequestHandler = async ({ params }) =>
 /**
  * Record a teardown qualification (multipart form): the checklist answers (`result-<item>`,
  * `measure-<item>`), `verdict`, `reasonCode`, `note`, `labourMinutes` (optional), `stationCode`, `idempotencyKey` and any
- * number of `photos`. Photos are checked and written by hash first; the rows and the verdict
- * move are one transaction.
+ * number of `photos`.
+ *
+ * Nothing reaches the disk for a move that will not happen: the whole move is first checked
+ * and rolled back (unit, station, role, route, guards), then the photos are checked and written
+ * under temporary names, the move and its rows commit in one transaction, and only then are the
+ * files renamed to their hash names. A refusal at any step removes the temporary files.
  */
 export const POST: RequestHandler = async ({ params, request, locals }) => {
 	const user = locals.user!;
@@ -61,10 +66,9 @@ export const POST: RequestHandler = async ({ params, request, locals }) => {
 	if (verdict !== 'accept' && verdict !== 'scrap') return apiError(400, 'invalid', 'Choose a verdict: accept or scrap.', { fields: { verdict: ['Choose a verdict.'] } });
 	if (verdict === 'scrap' && !text('reasonCode')?.trim()) return apiError(400, 'invalid', 'Choose a scrap reason.', { fields: { reasonCode: ['Choose a scrap reason.'] } });
 
-	const stored = await storePhotos(uploads);
-	if (!stored.ok) return apiError(400, 'invalid', stored.message, { fields: { photos: [stored.message] } });
-
-	const result = recordQualification(getDb(), { id: user.id, role: user.role }, {
+	const db = getDb();
+	const actor = { id: user.id, role: user.role };
+	const input = {
 		serial: params.serial,
 		stationCode: text('stationCode'),
 		idempotencyKey: key,
@@ -72,14 +76,26 @@ export const POST: RequestHandler = async ({ params, request, locals }) => {
 		reasonCode: text('reasonCode'),
 		note: text('note'),
 		labourMinutes: text('labourMinutes'),
-		answers,
-		photos: stored.photos
-	});
-	if (!result.ok) {
-		return apiError(result.status, result.code, result.message, {
+		answers
+	};
+	const refused = (result: Extract<MoveResult, { ok: false }>) =>
+		apiError(result.status, result.code, result.message, {
 			...(result.fields ? { fields: result.fields } : {}),
 			...(result.unit ? { unit: result.unit } : {})
 		});
-	}
-	return json({ unit: result.unit, event: result.event, replayed: result.replayed, photos: stored.photos.length }, { status: result.status });
+
+	// the move as it would go now, rolled back: a refused move never writes a file
+	const trial = recordQualification(db, actor, { ...input, photos: [] }, new Date(), { dryRun: true });
+	if (!trial.ok) return refused(trial);
+	if (trial.replayed) return json({ unit: trial.unit, event: trial.event, replayed: true, photos: 0 }, { status: trial.status });
+
+	const staged = await stagePhotos(uploads);
+	if (!staged.ok) return apiError(400, 'invalid', staged.message, { fields: { photos: [staged.message] } });
+	const result = keepIfCommitted(
+		staged.staged,
+		() => recordQualification(db, actor, { ...input, photos: staged.staged.photos }),
+		(r) => r.ok && !r.replayed
+	);
+	if (!result.ok) return refused(result);
+	return json({ unit: result.unit, event: result.event, replayed: result.replayed, photos: result.replayed ? 0 : staged.staged.photos.length }, { status: result.status });
 };
