@@ -155,7 +155,7 @@ describe('lots and suppliers', () => {
 		const [l] = listLots(s.db);
 		// by hand: 4 received; 1 accepted (in work), 1 scrapped, 2 still inspected (one of them held)
 		expect(l).toMatchObject({ code: 'L-TEST-1', expectedCount: 10, received: 4, waiting: 2, inWork: 1, scrapped: 1, shipped: 0, held: 1 });
-		const csv = lotsCsv([l]);
+		const csv = lotsCsv([l], 'owner');
 		expect(csv.split('\r\n')[1]).toBe('L-TEST-1,2026-11-30,Purchased skid,Test Core Source,40.00,10,4,2,1,0,1,1,');
 		expect(listSuppliers(s.db).find((x) => x.name === 'Test Core Source')).toMatchObject({ lots: 1, units: 4 });
 	});

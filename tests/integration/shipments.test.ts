@@ -32,7 +32,7 @@ test('a shipment to a depot ships every unit in it, or none when one cannot go',
 	expect(stateOf(shop, b)).toBe('shipped');
 	expect(stockByLocation(shop.db)).toEqual([{ location: 'Lakes Depot', modelCode: 'CH-F46', units: 2 }]);
 
-	const detail = shipmentDetail(shop.db, made.id)!;
+	const detail = shipmentDetail(shop.db, made.id, 'lead')!;
 	const pdf = await packingSlipPdf(detail, 'Test Turbo Shop');
 	const doc = await PDFDocument.load(pdf);
 	expect(doc.getPageCount()).toBe(1);
@@ -60,9 +60,9 @@ test('shipping a customer unit e-mails the tracking number; a declined one goes 
 	walk(shop, declined.serial, ['inspect', 'accept']);
 	addQuoteLine(shop.db, declined.order.id, { kind: 'part', description: 'Housing', quantity: '1', unitPrice: '900' });
 	sendQuote(shop.db, declined.order.id);
-	expect(shippableUnits(shop.db).some((u) => u.serial === declined.serial)).toBe(false);
+	expect(shippableUnits(shop.db, 'lead').some((u) => u.serial === declined.serial)).toBe(false);
 	decideQuote(shop.db, declined.order.id, { decision: 'decline', choice: 'return' });
-	expect(shippableUnits(shop.db).find((u) => u.serial === declined.serial)).toMatchObject({ unrepaired: true });
+	expect(shippableUnits(shop.db, 'lead').find((u) => u.serial === declined.serial)).toMatchObject({ unrepaired: true });
 	createShipment(shop.db, shop.actors.lead, { ...toCustomer, orderId: declined.order.id, trackingNumber: 'FP-7789', serials: [declined.serial] });
 	expect(stateOf(shop, declined.serial)).toBe('shipped');
 	const u = shop.db.select().from(unit).where(eq(unit.serial, declined.serial)).get()!;
