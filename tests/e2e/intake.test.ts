@@ -68,9 +68,20 @@ test('the office creates a lot, imports a manifest with one bad row and prints i
 
 	// and the lot list shows it, with its counts in the CSV report
 	const csv = await page.request.get('/lots.csv');
-	expect(csv.headers()['content-type']).toContain('text/csv');
-	const line = (await csv.text()).split('\r\n').find((l) => l.startsWith(`${code},`));
-	expect(line).toContain(',Purchased skid,Pellworth Fleet Services,42.50,5,5,5,0,0,0,0,');
+	expect(csv.headers()['content-type']).toBe('text/csv; charset=utf-8');
+	expect(csv.headers()['content-disposition']).toMatch(/^attachment; filename="spoolyard-lots-\d{4}-\d{2}-\d{2}\.csv"$/);
+	const text = await csv.text();
+	expect(text.startsWith('\uFEFF')).toBe(true);
+	// the office sees the price it typed in, not the per-lot shipped and scrapped counts (the owner's)
+	expect(text.split('\r\n')[0]).toBe('\uFEFFlot,received_on,source,supplier,cost_per_core,expected,received,waiting_teardown,in_work,on_hold,notes');
+	const line = text.split('\r\n').find((l) => l.startsWith(`${code},`));
+	expect(line).toContain(',Purchased skid,Pellworth Fleet Services,42.50,5,5,5,0,0,');
+	// the owner's CSV has every column: expected 5, received 5, waiting 5, in work 0, shipped 0, scrapped 0, on hold 0
+	const ownerPage = await page.context().browser()!.newPage();
+	await signIn(ownerPage, 'owner');
+	const ownerLine = (await (await ownerPage.request.get('/lots.csv')).text()).split('\r\n').find((l) => l.startsWith(`${code},`));
+	expect(ownerLine).toContain(',Purchased skid,Pellworth Fleet Services,42.50,5,5,5,0,0,0,0,');
+	await ownerPage.close();
 });
 
 test('files we cannot read get a clear message', async ({ page }) => {

@@ -83,3 +83,33 @@ test('screens of the other reports render (for a look)', async ({ page }) => {
 	await expect(page.getByTestId('balance-runs').getByText(/Pass|Fail/).first()).toBeVisible();
 	if (process.env.SHOTS) await page.screenshot({ path: 'test-results/trace.png', fullPage: true });
 });
+
+test('a supplier named like a formula reaches the owner’s CSV as text, with a byte-order mark so accents survive', async ({ page, browser }) => {
+	const evil = '=HYPERLINK("http://evil.example","Søren")';
+	// the office renames a supplier (office and owner edit suppliers)
+	await signIn(page, 'office');
+	await page.goto('/suppliers');
+	const row = page.getByTestId('suppliers').locator('tr', { hasText: 'Ashgrove Core Exchange' });
+	await row.getByRole('button', { name: 'Edit' }).click();
+	await page.getByTestId('suppliers').getByLabel('Name').fill(evil);
+	await page.getByTestId('suppliers').getByRole('button', { name: 'Save' }).click();
+	await expect(page.getByTestId('suppliers')).toContainText(evil);
+
+	const owner = await browser.newPage();
+	await signIn(owner, 'owner');
+	await owner.goto('/reports/suppliers');
+	await expect(owner.getByTestId('supplier-table')).toContainText(evil);
+	const [download] = await Promise.all([owner.waitForEvent('download'), owner.getByRole('button', { name: 'Export CSV' }).first().click()]);
+	expect(download.suggestedFilename()).toBe('suppliers.csv');
+	const bytes = await readFile((await download.path())!);
+	// UTF-8 BOM (EF BB BF, Unicode Standard §23.8), CRLF rows (RFC 4180 §2)
+	expect([...bytes.subarray(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
+	const text = bytes.toString('utf8');
+	expect(text).toContain('\r\n');
+	// read back with papaparse: the cell is the name with a leading quote, so no spreadsheet runs it
+	const csv = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
+	const names = csv.data.map((r) => r.Supplier);
+	expect(names).toContain(`'${evil}`);
+	expect(names.filter((n) => /^[=+\-@]/.test(n))).toEqual([]);
+	await owner.close();
+});

@@ -173,6 +173,8 @@ export interface Reply {
 	status: number;
 	headers: http.IncomingHttpHeaders;
 	text: string;
+	/** The body as sent (for binary answers such as PDFs). */
+	bytes: Buffer;
 	json<T = any>(): T; // eslint-disable-line @typescript-eslint/no-explicit-any
 }
 
@@ -227,17 +229,19 @@ export class Client {
 				}
 				if (options.headOnly) {
 					res.destroy();
-					resolvePromise({ status: res.statusCode ?? 0, headers: res.headers, text: '', json: () => ({}) as never });
+					resolvePromise({ status: res.statusCode ?? 0, headers: res.headers, text: '', bytes: Buffer.alloc(0), json: () => ({}) as never });
 					return;
 				}
 				const chunks: Buffer[] = [];
 				res.on('data', (c) => chunks.push(c));
 				res.on('end', () => {
-					const text = Buffer.concat(chunks).toString('utf8');
+					const bytes = Buffer.concat(chunks);
+					const text = bytes.toString('utf8');
 					resolvePromise({
 						status: res.statusCode ?? 0,
 						headers: res.headers,
 						text,
+						bytes,
 						json: () => JSON.parse(text)
 					});
 				});

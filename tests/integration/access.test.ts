@@ -1,7 +1,8 @@
 import { readdirSync, statSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
 import { expect, test } from 'vitest';
-import { ROUTE_ACCESS, checkAccess } from '../../src/lib/server/access';
+import { FIELDS, ROUTE_ACCESS, checkAccess, fieldsFor, maySee } from '../../src/lib/server/access';
+import { ROLES } from '../../src/lib/domain/auth/roles';
 
 /** Every route id under src/routes, found from the files themselves. */
 function routeIds(dir = 'src/routes'): string[] {
@@ -39,4 +40,18 @@ test('the rules say what the shop expects', () => {
 	expect(checkAccess('/(app)/stations/[code=code]', 'POST', 'office')).toBe('forbidden');
 	expect(checkAccess('/login', 'POST', null)).toBe('allow');
 	expect(checkAccess('/not/listed', 'GET', 'owner')).toBe('unlisted');
+});
+
+test('pages wholly about customers and their quotes open only to roles that may see those fields', () => {
+	for (const id of ['/(app)/orders', '/(app)/orders/[id=id]']) {
+		for (const role of ROLES) {
+			if (checkAccess(id, 'GET', role) !== 'allow') continue;
+			expect(maySee(role, 'customer'), `${role} reads ${id}`).toBe(true);
+			expect(maySee(role, 'quoteMoney'), `${role} reads ${id}`).toBe(true);
+		}
+	}
+	// the floor sees no customers and no money; per-lot yields are the owner's
+	expect(FIELDS.filter((f) => maySee('tech', f))).toEqual([]);
+	expect(ROLES.filter((r) => maySee(r, 'lotYield'))).toEqual(['owner']);
+	expect(fieldsFor('office')).toEqual({ customer: true, lotCost: true, quoteMoney: true, lotYield: false });
 });

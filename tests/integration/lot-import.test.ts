@@ -3,7 +3,8 @@ import { describe, expect, test } from 'vitest';
 import { testShop } from '../helpers/db';
 import { checkAccess } from '../../src/lib/server/access';
 import { counter, coreLot, turboModel, unit, unitEvent } from '../../src/lib/server/db/schema';
-import { addUnit, createLot, getLot, importManifest, listLots, lotsCsv, previewManifestFile, previewManifestText } from '../../src/lib/server/lots';
+import { addUnit, createLot, getLot, importManifest, isLotSortKey, listLots, lotView, lotsCsv, previewManifestFile, previewManifestText } from '../../src/lib/server/lots';
+import type { Role } from '../../src/lib/domain/auth/roles';
 import { createSupplier, DuplicateSupplierError, listSuppliers, updateSupplier } from '../../src/lib/server/suppliers';
 import { unitRecord } from '../../src/lib/server/unit-record';
 import { applyMove } from '../../src/lib/server/units';
@@ -155,9 +156,33 @@ describe('lots and suppliers', () => {
 		const [l] = listLots(s.db);
 		// by hand: 4 received; 1 accepted (in work), 1 scrapped, 2 still inspected (one of them held)
 		expect(l).toMatchObject({ code: 'L-TEST-1', expectedCount: 10, received: 4, waiting: 2, inWork: 1, scrapped: 1, shipped: 0, held: 1 });
-		const csv = lotsCsv([l]);
+		const csv = lotsCsv([l], 'owner');
 		expect(csv.split('\r\n')[1]).toBe('L-TEST-1,2026-11-30,Purchased skid,Test Core Source,40.00,10,4,2,1,0,1,1,');
 		expect(listSuppliers(s.db).find((x) => x.name === 'Test Core Source')).toMatchObject({ lots: 1, units: 4 });
+	});
+
+	test('the lot list per role: the price per core for the office, the lead and the owner; shipped and scrapped per lot for the owner only', () => {
+		const s = shop();
+		const [x] = s.receive(1);
+		applyMove(s.db, s.actors.tech, { serial: x, action: 'inspect', stationCode: 'TEARDOWN-1', idempotencyKey: `i-${x}` });
+		applyMove(s.db, s.actors.tech, { serial: x, action: 'scrap', stationCode: 'TEARDOWN-1', idempotencyKey: `s-${x}`, data: { reasonCode: 'TH-CRACK' } });
+		const lots = listLots(s.db);
+		const header = (role: Role) => lotsCsv(lots, role).slice(1).split('\r\n')[0];
+		expect(header('owner')).toBe('lot,received_on,source,supplier,cost_per_core,expected,received,waiting_teardown,in_work,shipped,scrapped,on_hold,notes');
+		expect(header('office')).toBe('lot,received_on,source,supplier,cost_per_core,expected,received,waiting_teardown,in_work,on_hold,notes');
+		expect(header('lead')).toBe(header('office'));
+		expect(header('tech')).toBe('lot,received_on,source,supplier,expected,received,waiting_teardown,in_work,on_hold,notes');
+		expect(lotsCsv(lots, 'tech').split('\r\n')[1]).toBe('L-TEST-1,2026-11-30,Purchased skid,Test Core Source,10,1,0,0,0,');
+		expect(lotView(lots[0], 'tech')).not.toHaveProperty('costPerCoreCents');
+		expect(lotView(lots[0], 'tech')).not.toHaveProperty('scrapped');
+		expect(lotView(lots[0], 'office')).toMatchObject({ costPerCoreCents: 4000 });
+		expect(lotView(lots[0], 'office')).not.toHaveProperty('scrapped');
+		expect(lotView(lots[0], 'owner')).toMatchObject({ costPerCoreCents: 4000, scrapped: 1, shipped: 0 });
+		// sorting by a hidden count would show it by the order: refused for those who may not see it
+		expect(isLotSortKey('scrapped', 'tech')).toBe(false);
+		expect(isLotSortKey('shipped', 'office')).toBe(false);
+		expect(isLotSortKey('scrapped', 'owner')).toBe(true);
+		expect(isLotSortKey('received', 'tech')).toBe(true);
 	});
 
 	test('lots sort by any column', () => {

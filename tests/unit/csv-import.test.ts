@@ -2,7 +2,7 @@ import fc from 'fast-check';
 import Papa from 'papaparse';
 import { describe, expect, test } from 'vitest';
 import { decodeCsvBytes, firstInvalidUtf8, parseCsvTable, readCsvTable, MAX_IMPORT_ROWS } from '../../src/lib/domain/import/csv-table';
-import { csvCell, toCsv } from '../../src/lib/domain/import/csv-write';
+import { toCsv } from '../../src/lib/csv/write';
 import { applyColumnMap, checkColumnMap, guessColumnMap, normalizeHeader, type ImportField } from '../../src/lib/domain/import/map-columns';
 
 const enc = (s: string) => new TextEncoder().encode(s);
@@ -164,19 +164,20 @@ describe('map-columns step', () => {
 	});
 });
 
-describe('writing CSV', () => {
+describe('writing CSV (the shared writer, src/lib/csv/write.ts; more in csv-write.test.ts)', () => {
+	const line = (cells: (string | number)[]) => toCsv(cells.map((_, i) => `h${i}`), [cells]).slice(1).split('\r\n')[1];
 	test('RFC 4180 §2 rules 6 and 7: quote fields with commas, quotes or line breaks; double the quotes', () => {
-		expect(csvCell('plain')).toBe('plain');
-		expect(csvCell('a,b')).toBe('"a,b"');
-		expect(csvCell('say "hi"')).toBe('"say ""hi"""');
-		expect(csvCell('two\nlines')).toBe('"two\nlines"');
-		expect(toCsv(['a', 'b'], [[1, 'x']])).toBe('a,b\r\n1,x\r\n');
+		expect(line(['plain'])).toBe('plain');
+		expect(line(['a,b'])).toBe('"a,b"');
+		expect(line(['say "hi"'])).toBe('"say ""hi"""');
+		expect(toCsv(['x'], [['two\nlines']]).slice(1)).toBe('x\r\n"two\nlines"\r\n');
+		expect(toCsv(['a', 'b'], [[1, 'x']])).toBe('\uFEFFa,b\r\n1,x\r\n');
 	});
 
 	test('formula-looking cells are defused (OWASP "CSV Injection": prefix = + - @ with a quote)', () => {
-		expect(csvCell('=SUM(A1)')).toBe("'=SUM(A1)");
-		expect(csvCell('@cmd')).toBe("'@cmd");
-		expect(csvCell(-5)).toBe('-5'); // numbers stay numbers
+		expect(line(['=SUM(A1)'])).toBe(`"'=SUM(A1)"`);
+		expect(line(['@cmd'])).toBe(`"'@cmd"`);
+		expect(line([-5])).toBe('-5'); // numbers stay numbers
 	});
 
 	test('papaparse reads back what we write (round trip against an independent parser)', () => {

@@ -1,17 +1,13 @@
-/** Tables as CSV files (RFC 4180 quoting), downloaded in the browser. */
-export function toCsv(rows: readonly (readonly (string | number | null)[])[]): string {
-	const cell = (v: string | number | null) => {
-		const s = v === null ? '' : String(v);
-		return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
-	};
-	return rows.map((r) => r.map(cell).join(',')).join('\r\n') + '\r\n';
-}
+/** Tables downloaded as CSV files in the browser, written by the shared writer. */
+import { CSV_CONTENT_TYPE, csvFilename, toCsv, type CsvCell } from '$lib/csv/write';
 
-export function downloadCsv(filename: string, rows: readonly (readonly (string | number | null)[])[]): void {
-	const url = URL.createObjectURL(new Blob([toCsv(rows)], { type: 'text/csv;charset=utf-8' }));
+export function downloadCsv(filename: string, header: readonly string[], rows: readonly (readonly CsvCell[])[]): void {
+	const url = URL.createObjectURL(new Blob([toCsv(header, rows)], { type: CSV_CONTENT_TYPE }));
 	const a = document.createElement('a');
 	a.href = url;
-	a.download = filename;
+	a.download = csvFilename(filename);
+	document.body.append(a);
 	a.click();
+	a.remove();
 	setTimeout(() => URL.revokeObjectURL(url), 1000);
 }

@@ -107,6 +107,39 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 
 };
 
+/**
+ * Who may see which fields, wherever they appear (pages, their `__data.json`, JSON and CSV).
+ * A route that lets a role in still leaves these out of what it sends to a role not listed:
+ * the services and loads ask `maySee` and drop the field, they do not just hide it in the page.
+ *
+ * - customer:  a customer's name, e-mail, phone and postal address (rebuild orders, the customer
+ *              on a demand order, the ship-to of customer and web-order shipments, packing slips).
+ *              The people who take customers' units in and send them back: office, lead, owner.
+ * - lotCost:   the price paid per core, typed in at intake (office, lead, owner).
+ * - quoteMoney: quote lines, totals and payments (office, lead, owner: who write the quotes).
+ * - lotYield:  per-lot counts of shipped and scrapped units, the raw data behind the owner's
+ *              scrap and supplier reports (owner).
+ * The floor (tech) works with serials, models, lots and states: none of the above.
+ */
+export const FIELD_ACCESS = {
+	customer: INTAKE_ROLES,
+	lotCost: INTAKE_ROLES,
+	quoteMoney: INTAKE_ROLES,
+	lotYield: OWNER
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Field = keyof typeof FIELD_ACCESS;
+export const FIELDS = Object.keys(FIELD_ACCESS) as Field[];
+
+export function maySee(role: Role, field: Field): boolean {
+	return (FIELD_ACCESS[field] as readonly Role[]).includes(role);
+}
+
+/** Every field rule for one role, e.g. to tell a page which columns it was sent. */
+export function fieldsFor(role: Role): Record<Field, boolean> {
+	return Object.fromEntries(FIELDS.map((f) => [f, maySee(role, f)])) as Record<Field, boolean>;
+}
+
 const READ_METHODS = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 export type AccessVerdict = 'allow' | 'sign-in' | 'forbidden' | 'unlisted';

@@ -5,7 +5,9 @@
  */
 import { and, asc, eq, sql } from 'drizzle-orm';
 import { readCsvTable, parseCsvTable, type CsvTable } from '../domain/import/csv-table';
-import { toCsv } from '../domain/import/csv-write';
+import { toCsv } from '../csv/write';
+import type { Role } from '../domain/auth/roles';
+import { maySee } from './access';
 import { applyColumnMap, checkColumnMap, guessColumnMap, type ColumnMap } from '../domain/import/map-columns';
 import { LOT_SOURCE_LABEL, lotFormSchema, nextLotCode, parseMoneyToCents, formatCents, type LotForm } from '../domain/lots/lot';
 import {
@@ -81,9 +83,13 @@ function toSummary(r: SummaryRow): LotSummary {
 
 export const LOT_SORT_KEYS = ['code', 'receivedOn', 'supplier', 'source', 'expectedCount', 'received', 'waiting', 'inWork', 'shipped', 'scrapped', 'held'] as const;
 export type LotSortKey = (typeof LOT_SORT_KEYS)[number];
+/** Sorting by these would show the order of a field the role may not see. */
+const YIELD_KEYS: readonly LotSortKey[] = ['shipped', 'scrapped'];
 
-export function isLotSortKey(v: unknown): v is LotSortKey {
-	return typeof v === 'string' && (LOT_SORT_KEYS as readonly string[]).includes(v);
+/** A sort key the role may sort by (per-lot yields only for those who may see them). */
+export function isLotSortKey(v: unknown, role?: Role): v is LotSortKey {
+	if (typeof v !== 'string' || !(LOT_SORT_KEYS as readonly string[]).includes(v)) return false;
+	return role === undefined || maySee(role, 'lotYield') || !YIELD_KEYS.includes(v as LotSortKey);
 }
 
 /** All lots with their counts; newest first unless a sort is given. */
@@ -98,21 +104,36 @@ export function listLots(db: DbOrTx, sort: LotSortKey = 'receivedOn', dir: 'asc'
 	});
 }
 
-export function lotsCsv(lots: readonly LotSummary[]): string {
+/** A lot as one role may see it: the price per core and the per-lot yields only where FIELD_ACCESS allows. */
+export type LotView = Omit<LotSummary, 'costPerCoreCents' | 'shipped' | 'scrapped'> & Partial<Pick<LotSummary, 'costPerCoreCents' | 'shipped' | 'scrapped'>>;
+
+export function lotView(l: LotSummary, role: Role): LotView {
+	const { costPerCoreCents, shipped, scrapped, ...rest } = l;
+	return {
+		...rest,
+		...(maySee(role, 'lotCost') ? { costPerCoreCents } : {}),
+		...(maySee(role, 'lotYield') ? { shipped, scrapped } : {})
+	};
+}
+
+/** The lot list as CSV for one role: columns the role may not see are left out, not blanked. */
+export function lotsCsv(lots: readonly LotSummary[], role: Role): string {
+	const cost = maySee(role, 'lotCost');
+	const yields = maySee(role, 'lotYield');
+	const header = ['lot', 'received_on', 'source', 'supplier', ...(cost ? ['cost_per_core'] : []), 'expected', 'received', 'waiting_teardown', 'in_work', ...(yields ? ['shipped', 'scrapped'] : []), 'on_hold', 'notes'];
 	return toCsv(
-		['lot', 'received_on', 'source', 'supplier', 'cost_per_core', 'expected', 'received', 'waiting_teardown', 'in_work', 'shipped', 'scrapped', 'on_hold', 'notes'],
+		header,
 		lots.map((l) => [
 			l.code,
 			l.receivedOn,
 			LOT_SOURCE_LABEL[l.source],
 			l.supplier ?? '',
-			formatCents(l.costPerCoreCents).replace(/,/g, ''),
+			...(cost ? [formatCents(l.costPerCoreCents).replace(/,/g, '')] : []),
 			l.expectedCount,
 			l.received,
 			l.waiting,
 			l.inWork,
-			l.shipped,
-			l.scrapped,
+			...(yields ? [l.shipped, l.scrapped] : []),
 			l.held,
 			l.notes
 		])

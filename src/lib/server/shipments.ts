@@ -10,8 +10,9 @@ import { z } from 'zod';
 import type { Db, DbOrTx } from './db';
 import { rebuildOrder, shipLocation, shipment, shipmentUnit, turboModel, unit, unitEvent } from './db/schema';
 import { applyMove, type Actor } from './units';
-import { STEERING_ROLES } from '../domain/auth/roles';
+import { STEERING_ROLES, type Role } from '../domain/auth/roles';
 import { optionalNumber } from '../domain/input/fields';
+import { maySee } from './access';
 
 export const newShipmentSchema = z
 	.object({
@@ -37,8 +38,9 @@ export type NewShipment = z.infer<typeof newShipmentSchema>;
 
 export class ShipmentError extends Error {}
 
-/** Units that can go out now: packed ones, and customers' units whose quote was declined with "send it back". */
-export function shippableUnits(db: DbOrTx) {
+/** Units that can go out now: packed ones, and customers' units whose quote was declined with "send it back". The customer's name only for roles that may see customers. */
+export function shippableUnits(db: DbOrTx, role: Role) {
+	const customers = maySee(role, 'customer');
 	const rows = db
 		.select({
 			serial: unit.serial,
@@ -59,7 +61,17 @@ export function shippableUnits(db: DbOrTx) {
 		.all();
 	return rows
 		.filter((r) => r.state === 'packed' || (r.declineChoice === 'return' && r.quoteStatus === 'declined'))
-		.map((r) => ({ ...r, unrepaired: r.state !== 'packed' }));
+		.map(({ customerName, ...r }) => ({ ...r, customerName: customers ? customerName : null, unrepaired: r.state !== 'packed' }));
+}
+
+/**
+ * Where a shipment went, as the role may see it. A depot's name and address are the shop's own;
+ * a customer's or a web buyer's name and address only for roles that may see customers — the
+ * others read the order or web-order number instead.
+ */
+export function shipToFor(role: Role, s: { destination: (typeof shipment.$inferSelect)['destination']; shipTo: string; reference: string; orderCode: string | null }): string {
+	if (s.destination === 'distributor' || maySee(role, 'customer')) return s.shipTo;
+	return s.destination === 'customer' ? `Customer order ${s.orderCode ?? ''}`.trim() : `Web order ${s.reference}`.trim();
 }
 
 function nextCode(tx: DbOrTx, now: Date): string {
@@ -127,26 +139,30 @@ export function createShipment(db: Db, actor: Actor, input: NewShipment, now: Da
 	);
 }
 
-export function listShipments(db: DbOrTx) {
+export function listShipments(db: DbOrTx, role: Role) {
 	return db
 		.select({
 			id: shipment.id,
 			code: shipment.code,
 			destination: shipment.destination,
 			shipTo: shipment.shipTo,
+			reference: shipment.reference,
+			orderCode: rebuildOrder.code,
 			carrier: shipment.carrier,
 			trackingNumber: shipment.trackingNumber,
 			createdAt: shipment.createdAt,
 			units: sql<number>`(select count(*) from shipment_unit su where su.shipment_id = ${shipment.id})`
 		})
 		.from(shipment)
+		.leftJoin(rebuildOrder, eq(rebuildOrder.id, shipment.orderId))
 		.orderBy(desc(shipment.id))
 		.limit(200)
 		.all()
-		.map((r) => ({ ...r, createdAt: r.createdAt.toISOString() }));
+		.map((r) => ({ ...r, shipTo: shipToFor(role, r), createdAt: r.createdAt.toISOString() }));
 }
 
-export function shipmentDetail(db: DbOrTx, id: number) {
+/** One shipment with its units; the ship-to as `shipToFor` gives it to the role. */
+export function shipmentDetail(db: DbOrTx, id: number, role: Role) {
 	const s = db.select().from(shipment).where(eq(shipment.id, id)).get();
 	if (!s) return null;
 	const units = db
@@ -168,7 +184,8 @@ export function shipmentDetail(db: DbOrTx, id: number) {
 			.map((r) => r.serial)
 	);
 	const order = s.orderId ? db.select({ code: rebuildOrder.code }).from(rebuildOrder).where(eq(rebuildOrder.id, s.orderId)).get() : null;
-	return { shipment: { ...s, createdAt: s.createdAt.toISOString() }, units: units.map((u) => ({ ...u, unrepaired: unrepaired.has(u.serial) })), orderCode: order?.code ?? null };
+	const shown = { ...s, shipTo: shipToFor(role, { ...s, orderCode: order?.code ?? null }) };
+	return { shipment: { ...shown, createdAt: s.createdAt.toISOString() }, units: units.map((u) => ({ ...u, unrepaired: unrepaired.has(u.serial) })), orderCode: order?.code ?? null };
 }
 
 export function shipLocations(db: DbOrTx) {
@@ -189,8 +206,9 @@ export function stockByLocation(db: DbOrTx) {
 		.all();
 }
 
-/** Customer orders that may receive a shipment (not yet shipped). */
-export function openCustomerOrders(db: DbOrTx) {
+/** Customer orders that may receive a shipment (not yet shipped); the customer's name only for roles that may see customers. */
+export function openCustomerOrders(db: DbOrTx, role: Role) {
+	const customers = maySee(role, 'customer');
 	return db
 		.select({ id: rebuildOrder.id, code: rebuildOrder.code, customerName: rebuildOrder.customerName })
 		.from(rebuildOrder)
@@ -198,6 +216,7 @@ export function openCustomerOrders(db: DbOrTx) {
 		.leftJoin(shipmentUnit, eq(shipmentUnit.unitId, unit.id))
 		.where(and(isNull(shipmentUnit.unitId), inArray(unit.state, ['packed', 'inspected', 'accepted'])))
 		.orderBy(asc(rebuildOrder.code))
-		.all();
+		.all()
+		.map((o) => ({ ...o, customerName: customers ? o.customerName : null }));
 }
 

@@ -4,7 +4,8 @@ import { INTAKE_ROLES } from '$lib/domain/auth/roles';
 import { ORDER_STATUSES, type OrderStatus } from '$lib/domain/orders/channels';
 import { getDb } from '$lib/server/db';
 import { turboModel } from '$lib/server/db/schema';
-import { createOrder, listOrders, setOrderStatus } from '$lib/server/orders';
+import { maySee } from '$lib/server/access';
+import { createOrder, listOrders, setOrderStatus, type OrderView } from '$lib/server/orders';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url, locals }) => {
@@ -13,7 +14,10 @@ export const load: PageServerLoad = async ({ url, locals }) => {
 	const status = raw === 'all' || (ORDER_STATUSES as readonly string[]).includes(raw) ? (raw as OrderStatus | 'all') : 'open';
 	return {
 		status,
-		orders: listOrders(db, { status, limit: 500 }),
+		// the customer on a walk-in order only for roles that may see customers
+		orders: listOrders(db, { status, limit: 500 }).map(({ customer, ...o }): Omit<OrderView, 'customer'> & { customer?: string } =>
+			maySee(locals.user!.role, 'customer') ? { ...o, customer } : o
+		),
 		models: db.select({ code: turboModel.code }).from(turboModel).orderBy(asc(turboModel.code)).all().map((m) => m.code),
 		canEdit: INTAKE_ROLES.includes(locals.user!.role)
 	};

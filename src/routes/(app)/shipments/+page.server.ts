@@ -7,14 +7,17 @@ import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ url, locals }) => {
 	const db = getDb();
+	const role = locals.user!.role;
+	const canShip = STEERING_ROLES.includes(role);
 	return {
-		shippable: shippableUnits(db),
-		shipments: listShipments(db),
-		locations: shipLocations(db),
-		orders: openCustomerOrders(db),
+		shippable: shippableUnits(db, role),
+		shipments: listShipments(db, role),
+		// the new-shipment form's choices go only to those who send shipments
+		locations: canShip ? shipLocations(db) : [],
+		orders: canShip ? openCustomerOrders(db, role) : [],
 		stock: stockByLocation(db),
 		preselectOrder: Number(url.searchParams.get('order')) || null,
-		canShip: STEERING_ROLES.includes(locals.user!.role)
+		canShip
 	};
 };
 

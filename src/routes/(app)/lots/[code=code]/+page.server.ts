@@ -4,7 +4,8 @@ import { zod4 } from 'sveltekit-superforms/adapters';
 import { INTAKE_ROLES } from '$lib/domain/auth/roles';
 import { unitDraftSchema } from '$lib/domain/lots/lot';
 import { getDb } from '$lib/server/db';
-import { addUnit, getLot, listModels } from '$lib/server/lots';
+import { fieldsFor } from '$lib/server/access';
+import { addUnit, getLot, listModels, lotView } from '$lib/server/lots';
 import type { Actions, PageServerLoad } from './$types';
 
 export const load: PageServerLoad = async ({ params, locals, url }) => {
@@ -12,8 +13,10 @@ export const load: PageServerLoad = async ({ params, locals, url }) => {
 	const lot = getLot(db, params.code);
 	if (!lot) error(404, { message: `No lot ${params.code}.` });
 	const models = listModels(db);
+	const role = locals.user!.role;
 	return {
-		lot,
+		lot: { ...lot, summary: lotView(lot.summary, role) },
+		fields: fieldsFor(role),
 		models,
 		canReceive: INTAKE_ROLES.includes(locals.user!.role),
 		created: url.searchParams.get('created') === '1',

@@ -5,9 +5,10 @@ import { packingSlipPdf } from '$lib/server/packing-slip';
 import { getRebuildSettings } from '$lib/server/rebuild-settings';
 import type { RequestHandler } from './$types';
 
-export const GET: RequestHandler = async ({ params }) => {
+/** The packing slip; a customer's or web buyer's address only on the slip of a role that may see customers. */
+export const GET: RequestHandler = async ({ params, locals }) => {
 	const db = getDb();
-	const found = shipmentDetail(db, Number(params.id));
+	const found = shipmentDetail(db, Number(params.id), locals.user!.role);
 	if (!found) error(404, { message: 'No such shipment.' });
 	const pdf = await packingSlipPdf(found, getRebuildSettings(db).shopName);
 	return new Response(Buffer.from(pdf), {
