@@ -15,6 +15,7 @@ import { prepared } from './db/prepared';
 import { publish } from './live';
 import { loadFacts } from './unit-facts';
 import { afterUnitMove } from './rebuild-notify';
+import { moveStall } from './move-stall';
 
 export interface Actor {
 	id: string;
@@ -280,6 +281,7 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 
 			const row = q.rowBySerial(tx).get({ serial: input.serial });
 			if (!row) return { ok: false, status: 404, code: 'not_found', message: `No unit ${input.serial} in the shop.` };
+			moveStall?.();
 
 			let stationRow: typeof station.$inferSelect | undefined;
 			if (input.stationCode) {
