@@ -15,7 +15,9 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { user } from '../../src/lib/server/db/schema';
+import { eq } from 'drizzle-orm';
+import { unit, unitEvent, user } from '../../src/lib/server/db/schema';
+import { applyMove } from '../../src/lib/server/units';
 import { DEMO_STATIONS } from '../../src/lib/server/seed';
 import { STAGES, type Stage } from '../../src/lib/domain/units/states';
 import { testShop, type TestShop } from '../helpers/db';
@@ -128,3 +130,20 @@ test(`${RACERS} threads race on shared units for ${ROUNDS} rounds: every outcome
 	expect(tally.wins).toBeGreaterThan(ROUNDS);
 	expect(tally.finished.shipped + tally.finished.scrapped).toBeGreaterThan(0);
 }, 120_000);
+
+test('the update compares the version it read: a write that lands between reading the unit and updating it stops the move', () => {
+	// Inside the immediate transaction no other connection can write the row; this writes it from
+	// inside the move (its `before` hook) to stand for a writer the lock did not keep out, as a
+	// database without the write lock would let in. The move must fail whole, not overwrite it.
+	const s = testShop();
+	const [serial] = s.receive();
+	const before = s.db.select().from(unit).where(eq(unit.serial, serial)).get()!;
+	const intruder = () => void s.db.update(unit).set({ version: before.version + 1, holdReason: 'written meanwhile' }).where(eq(unit.id, before.id)).run();
+	expect(() =>
+		applyMove(s.db, s.actors.lead, { serial, action: 'inspect', idempotencyKey: 'cas-inspect-1' }, new Date(), { before: intruder })
+	).toThrow(`lost update on ${serial}`);
+	const after = s.db.select().from(unit).where(eq(unit.serial, serial)).get()!;
+	expect({ state: after.state, version: after.version, holdReason: after.holdReason }).toEqual({ state: 'received', version: 1, holdReason: null });
+	expect(s.db.select().from(unitEvent).where(eq(unitEvent.unitId, before.id)).all().map((e) => e.action)).toEqual(['receive']);
+	s.db.$client.close();
+});
