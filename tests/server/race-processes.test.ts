@@ -72,7 +72,7 @@ beforeAll(async () => {
 		}
 		clients.push(byActor);
 	}
-}, 300_000);
+}, 600_000);
 
 afterAll(async () => {
 	for (const byActor of clients) for (const c of byActor.values()) c.close();
@@ -143,4 +143,4 @@ test(`${RACERS} racers on ${PORTS.length} server processes sharing one database 
 	expect(tally.wins).toBeGreaterThan(ROUNDS);
 	// every server process answered some of the moves
 	for (const s of servers) expect(s.child.exitCode).toBeNull();
-}, 300_000);
+}, 600_000);
