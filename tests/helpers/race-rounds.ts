@@ -100,7 +100,10 @@ function stationFor(stage: Stage | null, stations: Record<Stage, string[]>, rand
 
 type Option = { kind: 'move'; ask: MoveAsk } | { kind: 'undo'; actor: Actor };
 
-/** The jobs of one round: `racers` jobs spread over the units of `pool`, often all on one unit. */
+/**
+ * The jobs of one round: `racers` jobs spread over the units of `pool`, often all on one unit.
+ * `roles`: who makes moves (through the API only the floor roles reach the move route).
+ */
 export function planRound(
 	db: Db,
 	round: number,
@@ -108,7 +111,8 @@ export function planRound(
 	racers: number,
 	people: RacePeople,
 	stations: Record<Stage, string[]>,
-	random: () => number
+	random: () => number,
+	roles: readonly Role[] = ['tech', 'lead', 'owner', 'office']
 ): { jobs: RaceJob[]; snapshots: Map<string, Snapshot> } {
 	const snapshots = new Map<string, Snapshot>();
 	const together = random() < 0.5;
@@ -119,7 +123,7 @@ export function planRound(
 		const serial = together ? pool[round % pool.length] : pool[Math.floor(random() * pool.length)];
 		let snap = snapshots.get(serial);
 		if (!snap) snapshots.set(serial, (snap = snapshot(db, serial)));
-		const sorted = sortAsks(snap, snap.facts, asksFor(snap.state));
+		const sorted = sortAsks(snap, snap.facts, asksFor(snap.state).filter((a) => roles.includes(a.role)));
 		const now = new Date();
 		const undoOk: Option[] = [];
 		const undoNo: Option[] = [];
@@ -285,7 +289,8 @@ export function roundProblems(db: Db, snapshots: Map<string, Snapshot>, jobs: re
 			if (carried && !j.allowedAtStart) problems.push(`${describeJob(j)}: carried v${v0}, where the machine refuses it, and won`);
 			if (carried) tally.versionedWins++;
 		}
-		if (j0Winners(winners) > 1) problems.push(`${serial}: ${j0Winners(winners)} jobs that carried v${v0} all won`);
+		const carriedWins = winners.filter((j) => j.expectedVersion !== undefined || j.undoSeq !== undefined).length;
+		if (carriedWins > 1) problems.push(`${serial}: ${carriedWins} jobs that carried v${v0} all won`);
 
 		// each win was allowed where it landed, and the row is the fold of the history
 		let at = { serial, state: snap.state, held: snap.held, holdReason: snap.holdReason };
@@ -313,10 +318,6 @@ export function roundProblems(db: Db, snapshots: Map<string, Snapshot>, jobs: re
 		if (row.state !== at.state || row.held !== at.held) problems.push(`${serial}: row ${row.state}${row.held ? ' held' : ''}, fold of the history ${at.state}${at.held ? ' held' : ''}`);
 	}
 	return problems;
-}
-
-function j0Winners(winners: readonly RaceJob[]): number {
-	return winners.filter((j) => j.expectedVersion !== undefined || j.undoSeq !== undefined).length;
 }
 
 /**

@@ -14,6 +14,7 @@ import { openDatabase, type Db } from '../../src/lib/server/db/index';
 import { coreLot, station, turboModel, user } from '../../src/lib/server/db/schema';
 import { receiveUnits, type Actor } from '../../src/lib/server/units';
 import { STAGES, type Stage } from '../../src/lib/domain/units/states';
+import { FLOOR_ROLES } from '../../src/lib/domain/auth/roles';
 import { checkUnits, prepareUnits } from '../helpers/shop-prep';
 import { rng } from '../helpers/machine-moves';
 import { emptyTally, planRound, roundProblems, tidyPool, type RaceJob, type RaceOutcome, type RacePeople } from '../helpers/race-rounds';
@@ -117,10 +118,11 @@ test(`${RACERS} racers on ${PORTS.length} server processes sharing one database 
 	let problems: string[] = [];
 	const started = performance.now();
 	for (let round = 0; round < ROUNDS && problems.length === 0; round++) {
-		const { jobs, snapshots } = planRound(db, round, pool, RACERS, people, stations, random);
+		const { jobs, snapshots } = planRound(db, round, pool, RACERS, people, stations, random, FLOOR_ROLES);
 		// all requests leave in the same tick, each racer to a different server than its neighbour
 		const outcomes = await Promise.all(jobs.map((job, i) => send((i + round) % servers.length, job)));
-		problems = roundProblems(db, snapshots, jobs, outcomes, tally, STALL_MS * 1.8).map((p) => `round ${round}: ${p}`);
+		// (waits for another server's transaction cannot be told apart from HTTP time here: not counted)
+		problems = roundProblems(db, snapshots, jobs, outcomes, tally, Number.POSITIVE_INFINITY).map((p) => `round ${round}: ${p}`);
 		tidyPool(db, pool, people, tally, () => {
 			const [serial] = receiveUnits(db, people.office, lotId, [{ modelId }]);
 			every.add(serial);
