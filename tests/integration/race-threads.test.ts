@@ -7,7 +7,7 @@
  * apart. Every outcome is accounted for (tests/helpers/race-rounds.ts) and every unit's row
  * equals the fold of its history at the end.
  *
- * RACE_THREAD_ROUNDS (default 300) and RACE_SEED replay a run.
+ * RACE_THREAD_ROUNDS (default 200) and RACE_SEED replay a run.
  */
 import { randomUUID } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -26,7 +26,7 @@ import { rng } from '../helpers/machine-moves';
 import { emptyTally, planRound, roundProblems, tidyPool, type RaceOutcome, type RacePeople } from '../helpers/race-rounds';
 
 const RACERS = 4;
-const ROUNDS = Number(process.env.RACE_THREAD_ROUNDS ?? 300);
+const ROUNDS = Number(process.env.RACE_THREAD_ROUNDS ?? 200);
 const SEED = Number(process.env.RACE_SEED ?? Math.floor(Math.random() * 2 ** 31));
 const STALL_MS = 4;
 
