@@ -7,6 +7,7 @@ import { decideUndo } from '../domain/units/undo';
 import type { Db } from './db';
 import { station, unit, unitEvent } from './db/schema';
 import { publish } from './live';
+import { moveStall } from './move-stall';
 import { findUnitView, type Actor, type UnitView } from './units';
 
 export type UndoResult =
@@ -39,6 +40,7 @@ export function undoLastMove(db: Db, actor: Actor, input: UndoInput, now: Date =
 			}
 			const row = tx.select().from(unit).where(eq(unit.serial, input.serial)).get();
 			if (!row) return { ok: false, status: 404, code: 'not_found', message: `No unit ${input.serial} in the shop.` };
+			moveStall?.();
 			let stationId: number | null = null;
 			if (input.stationCode) {
 				const s = tx.select().from(station).where(eq(station.code, input.stationCode)).get();

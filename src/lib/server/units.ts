@@ -17,6 +17,7 @@ import { prepared } from './db/prepared';
 import { publish } from './live';
 import { loadFacts } from './unit-facts';
 import { afterUnitMove } from './rebuild-notify';
+import { moveStall } from './move-stall';
 
 /** Moves take notes of up to 1000 characters; a longer stored note is shown cut. */
 const MAX_NOTE_SHOWN = 2000;
@@ -288,6 +289,7 @@ function applyMoveInTransaction(db: Db, actor: Actor, input: MoveInput, now: Dat
 
 			const row = q.rowBySerial(tx).get({ serial: input.serial });
 			if (!row) return { ok: false, status: 404, code: 'not_found', message: `No unit ${input.serial} in the shop.` };
+			moveStall?.();
 
 			let stationRow: typeof station.$inferSelect | undefined;
 			if (input.stationCode) {
