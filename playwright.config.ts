@@ -24,7 +24,8 @@ export default defineConfig({
 		command: 'npx vite build --logLevel warn && npx tsx scripts/seed.ts --fresh && node server.js',
 		url: `${origin}/api/health`,
 		reuseExistingServer: false,
-		timeout: 180_000,
+		// build + seed + start; a busy shared machine may need longer (E2E_SERVER_TIMEOUT_MS)
+		timeout: Number(process.env.E2E_SERVER_TIMEOUT_MS ?? 180_000),
 		stdout: 'ignore',
 		stderr: 'pipe',
 		env: {
