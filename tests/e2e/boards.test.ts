@@ -1,13 +1,19 @@
 import { expect, test, type Browser, type Page } from '@playwright/test';
 import { scan, signIn, smallPng, type PEOPLE } from './helpers';
 
-async function openBoard(browser: Browser, who: keyof typeof PEOPLE, code: string, block = false): Promise<Page> {
+async function openStation(browser: Browser, who: keyof typeof PEOPLE, code: string, blockStream: boolean): Promise<Page> {
 	const context = await browser.newContext();
-	if (block) await context.route('**/api/stream', (route) => route.abort());
+	if (blockStream) await context.route('**/api/stream', (route) => route.abort());
 	const page = await context.newPage();
 	await signIn(page, who);
 	await page.goto(`/stations/${code}`);
-	if (!block) await expect(page.getByTestId('live-status')).toHaveAttribute('data-status', 'open');
+	return page;
+}
+
+/** A station board with its live stream connected. */
+async function openBoard(browser: Browser, who: keyof typeof PEOPLE, code: string): Promise<Page> {
+	const page = await openStation(browser, who, code, false);
+	await expect(page.getByTestId('live-status')).toHaveAttribute('data-status', 'open');
 	return page;
 }
 
@@ -47,7 +53,7 @@ test('a scan on one board shows on another board without a reload', async ({ bro
 });
 
 test('with the live stream blocked the board says so and polls', async ({ browser }) => {
-	const watcher = await openBoard(browser, 'office', 'PAINT', true);
+	const watcher = await openStation(browser, 'office', 'PAINT', true);
 	await expect(watcher.getByTestId('live-status')).toContainText('checking every 5 s');
 	const tech = await openBoard(browser, 'tech', 'LATHE-B');
 	const serial = await firstQueued(tech);

@@ -60,10 +60,13 @@ test('a customer follows their unit from intake to shipment: link, quote, paymen
 
 	// The status e-mail arrives in the SMTP fake, with a link.
 	const mail = await waitForMail(owner, email, 'we received your unit');
-	expect(mail.html).toBeTruthy();
+	const links = [...(mail.text ?? '').matchAll(/https?:\/\/\S+\/track\/[A-Za-z0-9_-]{43}/g)].map((m) => m[0]);
+	// one status link, on this server, in the text and as the HTML part's link
+	expect(links).toHaveLength(1);
+	const link = links[0];
+	expect(new URL(link).origin).toBe(new URL(office.url()).origin);
+	expect(mail.html).toContain(`<a href="${link}">Open your status page</a>`);
 	expect(String(mail.html)).not.toMatch(/<img/i);
-	const link = /https?:\/\/\S+\/track\/[A-Za-z0-9_-]{43}/.exec(mail.text ?? '')?.[0];
-	expect(link).toBeTruthy();
 
 	// A fresh browser with no sign-in opens it and sees the stage.
 	const customerCtx = await browser.newContext();

@@ -5,8 +5,8 @@ import { recordAssembly, recordPassingRun } from './bench';
 test('a tech walks a demo core through every station to shipped and reads its history', async ({ page }) => {
 	await signIn(page, 'tech');
 	await page.goto('/stations/TEARDOWN-1');
-	// wait for hydration so the enhanced form is in charge
-	await page.waitForFunction(() => document.querySelector('[data-testid="scan-input"]') === document.activeElement || true);
+	// wait for hydration so the enhanced form is in charge (the root layout marks <html> once mounted)
+	await expect(page.locator('html')).toHaveAttribute('data-hydrated', 'true');
 	const first = page.getByTestId('queue').locator('tbody tr').filter({ hasText: 'Received' }).filter({ hasNotText: 'CH-P' }).first().locator('td').first();
 	const serial = (await first.innerText()).trim();
 	expect(serial).toMatch(/^SY-\d{5}$/);

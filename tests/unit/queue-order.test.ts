@@ -75,11 +75,12 @@ describe('queue order: card rank, then due date, then age; no card last', () => 
 					const cards = cs.map((c, i) => card({ id: i, rank: c.rank, kind: c.kind as 'units' | 'rule', ruleModelId: c.model }));
 					const units = us.map((x, i) => u(i + 1, { modelId: x.model, setCardId: x.set, since: x.since }));
 					const q = orderQueue(cards, units, 'paint');
-					const firstUncarded = q.findIndex((e) => !e.card);
-					if (firstUncarded >= 0) expect(q.slice(firstUncarded).every((e) => !e.card)).toBe(true);
+					// every unit on a card comes before every unit without one
+					expect(q.map((e) => (e.card ? 'c' : 'u')).join('')).toMatch(/^c*u*$/);
 					for (let i = 1; i < q.length; i++) {
 						expect(compareQueueEntries(q[i - 1], q[i])).toBeLessThan(0);
-						if (q[i - 1].card?.id === q[i].card?.id) expect(q[i - 1].unit.since).toBeLessThanOrEqual(q[i].unit.since);
+						// on the same card (or both on none), the older unit first
+						expect(q[i - 1].card?.id === q[i].card?.id && q[i - 1].unit.since > q[i].unit.since).toBe(false);
 					}
 				}
 			)

@@ -28,7 +28,14 @@ export async function startCustomerServices(db: Db): Promise<Running> {
 	const pay = paymentConfig();
 	const smtpFake = mail.mode === 'fake' ? await startSmtpFake(db, mail.fakePort) : null;
 	const sender =
-		mail.mode === 'off' ? null : new OutboxSender(db, smtpTransport(mail, smtpFake?.port), { from: mail.from, pollMs: Number(process.env.OUTBOX_POLL_MS ?? 1000) });
+		mail.mode === 'off'
+			? null
+			: new OutboxSender(db, smtpTransport(mail, smtpFake?.port), {
+					from: mail.from,
+					pollMs: Number(process.env.OUTBOX_POLL_MS ?? 1000),
+					// how long a claimed message waits before another sender (or this one after a restart) takes it again
+					leaseMs: Number(process.env.OUTBOX_LEASE_MS ?? 120_000)
+				});
 	sender?.start();
 	const webhookUrl = `${publicBaseUrl().replace('//localhost', '//127.0.0.1')}/api/payments/webhook`;
 	const paymentFake =
