@@ -133,7 +133,7 @@ export function chooseMethod(history: readonly number[], sesAlpha: number): Meth
 	const why = useTrend
 		? `Trend smoothing follows this model better: its one-week-ahead forecasts over the last ${scoredWeeks} weeks were off by ${units(trend.mae!)} units a week on average, single smoothing's by ${units(bestSingle.mae!)} at best.`
 		: trend.mse !== null && bestSingle.mse !== null && trend.mse < bestSingle.mse
-			? `Single smoothing: the trend method was only slightly closer (${units(trend.mae!)} against ${units(bestSingle.mae!)} units a week), not enough to prefer it.`
+			? `Single smoothing: the trend method's squared error was only ${Math.round((1 - trend.mse / bestSingle.mse) * 100)} % smaller (off by ${units(trend.mae!)} against ${units(bestSingle.mae!)} units a week), not the ${Math.round(TREND_EDGE * 100)} % it needs to be preferred.`
 			: `Single smoothing follows this model as well or better: off by ${units(bestSingle.mae ?? 0)} units a week at best, the trend method by ${units(trend.mae ?? 0)}.`;
 	return { single, bestSingle, trend, method: useTrend ? 'trend' : 'single', scoredWeeks, forecast: chosen.next, trust: chosen.mae, why };
 }
