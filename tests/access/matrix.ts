@@ -268,5 +268,10 @@ export const EXPECTED: Record<string, RouteExpectation> = {
 	'/api/reports/flow': { path: () => '/api/reports/flow', checks: [{ method: 'GET', answers: only(STEERING) }] },
 	'/api/reports/warranty': { path: () => '/api/reports/warranty', checks: [{ method: 'GET', answers: only(OWNER) }] },
 	'/api/reports/warranty/parts-lots': { path: () => '/api/reports/warranty/parts-lots', checks: [{ method: 'GET', answers: only(OWNER) }] },
-	'/api/reports/warranty/[serial=serial]': { path: (f) => `/api/reports/warranty/${f.serial}`, checks: [{ method: 'GET', answers: only(OWNER) }] }
+	'/api/reports/warranty/[serial=serial]': { path: (f) => `/api/reports/warranty/${f.serial}`, checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/(app)/reports/balance': { path: () => '/reports/balance', checks: [{ method: 'GET', answers: only(STEERING) }] },
+	'/api/reports/balance': { path: () => '/api/reports/balance', checks: [{ method: 'GET', answers: only(STEERING) }] },
+	'/api/reports/buying/compare': { path: () => '/api/reports/buying/compare?kind=source&a=purchased_skid&b=customer_return', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/buying/cost': { path: () => '/api/reports/buying/cost', checks: [{ method: 'GET', answers: only(OWNER) }] },
+	'/api/reports/buying/skid': { path: () => '/api/reports/buying/skid?supplier=1&cores=40&price=30.00', checks: [{ method: 'GET', answers: only(OWNER) }] }
 };

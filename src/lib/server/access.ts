@@ -103,7 +103,14 @@ export const ROUTE_ACCESS: Record<string, RouteRule> = {
 	'/api/reports/flow': { read: OWNER_AND_LEAD },
 	'/api/reports/warranty': { read: OWNER },
 	'/api/reports/warranty/parts-lots': { read: OWNER },
-	'/api/reports/warranty/[serial=serial]': { read: OWNER }
+	'/api/reports/warranty/[serial=serial]': { read: OWNER },
+
+	// Decisions: which cores to buy (owner); whether the balancer drifts (owner and lead)
+	'/(app)/reports/balance': { read: OWNER_AND_LEAD },
+	'/api/reports/balance': { read: OWNER_AND_LEAD },
+	'/api/reports/buying/compare': { read: OWNER },
+	'/api/reports/buying/cost': { read: OWNER },
+	'/api/reports/buying/skid': { read: OWNER }
 
 };
 

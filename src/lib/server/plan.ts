@@ -1,10 +1,13 @@
 /**
- * The build plan: per model, weekly demand from orders, a smoothed forecast, finished stock,
+ * The build plan: per model, weekly demand from orders, a smoothed forecast (single smoothing at
+ * the owner's α, or smoothing with a trend when that follows the model's history better),
+ * finished stock,
  * WIP as equivalent units, open orders → this week's suggested build and the lots whose
  * waiting cores can feed it. The arithmetic is in src/lib/domain/plan/.
  */
 import { and, asc, eq, gte, inArray, isNull, lt, ne, sql } from 'drizzle-orm';
-import { planModel, weeklyDemand, type PlanResult } from '../domain/plan/build-plan';
+import { weeklyDemand } from '../domain/plan/build-plan';
+import { planModelWithMethod, type MethodPlanResult } from '../domain/plan/plan-with-method';
 import { addDays, pastWeeks, weekStart } from '../domain/plan/weeks';
 import type { UnitState } from '../domain/units/states';
 import type { Db, DbOrTx } from './db';
@@ -32,7 +35,7 @@ export function setAlpha(db: Db, actor: Actor, value: number, now = new Date()):
 	return { ok: true };
 }
 
-export interface ModelPlan extends PlanResult {
+export interface ModelPlan extends MethodPlanResult {
 	model: string;
 	weeks: string[];
 	history: number[];
@@ -106,7 +109,7 @@ export function buildPlan(db: DbOrTx, now = new Date(), onlyModel?: string): Bui
 			const ownWip = wip.filter((w) => w.model === m.code).map(({ state, count }) => ({ state, count }));
 			const finished = stock.get(m.code) ?? 0;
 			const openDue = open?.due ?? 0;
-			const plan = planModel({ history, alpha, finished, wip: ownWip, openDue });
+			const plan = planModelWithMethod({ history, alpha, finished, wip: ownWip, openDue });
 			const feed = feedRows.filter((f) => f.modelId === m.id).map(({ lot, receivedOn, cores }) => ({ lot, receivedOn, cores }));
 			return {
 				model: m.code,

@@ -12,6 +12,8 @@ const CUSTOMERS = ['Bramble Lane Haulage', 'Tessel Farm Co-op', 'Oriel Street Ga
 
 /** Typical weekly units per model (invented), so the plan has something to smooth. */
 const WEEKLY: Record<string, number> = { 'CH-F46': 20, 'CH-F52': 30, 'CH-F58': 3, 'CH-V49': 5, 'CH-V55': 30, 'CH-P61': 2, 'CH-P66': 1.5, 'CH-K60': 4 };
+/** A newly launched kit whose orders ramp up week by week from its pre-orders (invented): units per week by week index. */
+const RAMPING: Record<string, (week: number) => number> = { 'CH-K60': (wi) => 1 + 2.5 * wi };
 
 export function seedLeadBoard(tx: Tx, o: { now: Date; random: () => number; leadId: string; officeId: string }): { orders: number; cards: number } {
 	const { now, random } = o;
@@ -27,7 +29,8 @@ export function seedLeadBoard(tx: Tx, o: { now: Date; random: () => number; lead
 			const lines = models
 				.map((m) => {
 					const share = channelsWeighted.filter((c) => c === ch).length / channelsWeighted.length;
-					const mean = (WEEKLY[m.code] ?? 2) * share * (1 + 0.25 * Math.sin(wi / 2));
+					const ramp = RAMPING[m.code];
+					const mean = ramp ? ramp(wi) * share : (WEEKLY[m.code] ?? 2) * share * (1 + 0.25 * Math.sin(wi / 2));
 					const qty = Math.floor(mean + random() * 1.6 - 0.3);
 					return { modelId: m.id, quantity: qty };
 				})
