@@ -20,7 +20,8 @@
 import Database from 'better-sqlite3';
 import * as devalue from 'devalue';
 import fc from 'fast-check';
-import { mkdirSync, readdirSync } from 'node:fs';
+import { mkdirSync, readdirSync, readFileSync } from 'node:fs';
+import { loadavg } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { FUZZ_TARGETS, NOT_FUZZED, type FuzzFixtures, type FuzzRequest, type FuzzTarget, type Who } from '../fuzz/targets';
@@ -65,6 +66,7 @@ describe('fuzzing the built server', () => {
 	const clients = new Map<Who, Client>();
 	const tallies: Tally[] = [];
 	const started = Date.now();
+	const cpuAtStart = process.cpuUsage();
 
 	beforeAll(async () => {
 		await ensureBuilt();
@@ -90,6 +92,14 @@ describe('fuzzing the built server', () => {
 	afterAll(async () => {
 		watch?.close();
 		for (const c of clients.values()) c.close();
+		// the server's own CPU time (utime + stime in clock ticks of 1/100 s), read before it stops
+		let serverCpu = 0;
+		try {
+			const stat = readFileSync(`/proc/${server.child.pid}/stat`, 'utf8').split(') ')[1].split(' ');
+			serverCpu = (Number(stat[11]) + Number(stat[12])) / 100;
+		} catch {
+			/* not Linux */
+		}
 		await server?.stop();
 		if (dir) cleanup(dir);
 		const total = (k: keyof Omit<Tally, 'target'>) => tallies.reduce((s, t) => s + (t[k] as number), 0);
@@ -100,6 +110,8 @@ describe('fuzzing the built server', () => {
 			...tallies.map(row),
 			row({ target: `TOTAL (${tallies.length} targets, seed ${SEED})`, sent: total('sent'), reached: total('reached'), accepted: total('accepted'), pages: total('pages'), fivexx: total('fivexx'), findings: total('findings'), ms: total('ms') })
 		];
+		const cpu = process.cpuUsage(cpuAtStart);
+		console.log(`fuzz: CPU seconds: test process ${((cpu.user + cpu.system) / 1e6).toFixed(1)}, server ${serverCpu.toFixed(1)}; load average at the end ${loadavg().map((x) => x.toFixed(1)).join(' ')}`);
 		console.log(`fuzz: per target (reached = answered other than a validation 400/413/415; pages = read-after-write pages checked)\n${lines.join('\n')}\nfuzz: ${((Date.now() - started) / 1000).toFixed(1)} s in all`);
 	});
 
@@ -113,11 +125,20 @@ describe('fuzzing the built server', () => {
 		return `[${req.shape}] ${req.method ?? 'POST'} ${req.path.slice(0, 160)} ${req.contentType ?? (req.kind === 'form' ? 'form' : '')} ${body}`;
 	}
 
-	function send(c: Client, req: FuzzRequest): Promise<Reply> {
-		if (req.kind === 'form') return c.action(req.path, new URLSearchParams(req.fields ?? []), req.headers);
-		const headers: Record<string, string> = { origin: c.origin, ...req.headers };
+	function sendWith(c: Client, req: FuzzRequest, extra: Record<string, string> = {}): Promise<Reply> {
+		if (req.kind === 'form') return c.action(req.path, new URLSearchParams(req.fields ?? []), { ...req.headers, ...extra });
+		const headers: Record<string, string> = { origin: c.origin, ...req.headers, ...extra };
 		if (req.contentType) headers['content-type'] = req.contentType;
 		return c.request(req.method ?? 'POST', req.path, { headers, body: req.body ?? '' });
+	}
+
+	/**
+	 * Send as the person, each request on a connection of its own: a route that answers without
+	 * reading the body (an action that takes no fields) leaves the rest of it on a kept-alive
+	 * connection, and the next request there would wait and be reset.
+	 */
+	function send(c: Client, req: FuzzRequest): Promise<Reply> {
+		return sendWith(c, req, { connection: 'close' });
 	}
 
 	/** Strings a person would read: under keys named message / error / errors, anywhere in the answer. */
@@ -213,7 +234,16 @@ describe('fuzzing the built server', () => {
 	}
 
 	/** GET the pages, four at a time; the ones that answered 5xx, with their answers. */
+	let pageMs = 0;
 	async function open(pages: Page[]): Promise<{ page: Page; reply: Reply }[]> {
+		const t = Date.now();
+		try {
+			return await openPages(pages);
+		} finally {
+			pageMs += Date.now() - t;
+		}
+	}
+	async function openPages(pages: Page[]): Promise<{ page: Page; reply: Reply }[]> {
 		const bad: { page: Page; reply: Reply }[] = [];
 		for (let i = 0; i < pages.length; i += 4) {
 			const replies = await Promise.all(pages.slice(i, i + 4).map((p) => clients.get(p.as)!.get(p.url)));
@@ -229,6 +259,8 @@ describe('fuzzing the built server', () => {
 			const t0 = Date.now();
 			const c = clients.get(target.as)!;
 			const requests = fc.sample(target.request(fixtures), { numRuns: runs(target), seed: SEED + index });
+			const generated = Date.now() - t0;
+			pageMs = 0;
 			const tally: Tally = { target: `${name(target)} as ${target.as}`, sent: 0, reached: 0, accepted: 0, pages: 0, fivexx: 0, findings: 0, ms: 0 };
 			tallies.push(tally);
 			/** Findings, each once with how often it came up. */
@@ -242,12 +274,26 @@ describe('fuzzing the built server', () => {
 			const deferred = new Map<string, { page: Page; writes: string[] }>();
 			/** Answers by request shape and status, printed with FUZZ_DEBUG=1. */
 			const histogram = new Map<string, number>();
-			const fullSum = () => dbChecksum(server.dbFile, target.mayWrite ?? []);
+			const spent = new Map<string, number>();
+			/**
+			 * Did a commit land since `version`? Any commit at all, for most targets; for a target that
+			 * writes some tables on refusal on purpose, a change in the checksum of all the other tables
+			 * (computed only when a commit landed; the last one is kept with the version it was made at).
+			 */
+			let kept: { version: number; sum: string } | null = null;
+			const sumNow = () => {
+				const v = dataVersion();
+				if (kept?.version !== v) kept = { version: v, sum: dbChecksum(server.dbFile, target.mayWrite ?? []) };
+				return kept.sum;
+			};
+			const changedSince = (version: number, sum: string | null) => (target.mayWrite ? dataVersion() !== version && sumNow() !== sum : dataVersion() !== version);
 			for (const req of requests) {
 				tally.sent++;
+				const t1 = Date.now();
 				const version = dataVersion();
 				const files = uploadList();
-				const sum = target.mayWrite ? fullSum() : null;
+				const sum = target.mayWrite ? sumNow() : null;
+				spent.set('pre', (spent.get('pre') ?? 0) + Date.now() - t1);
 				let r: Reply;
 				try {
 					r = await send(c, req);
@@ -255,13 +301,18 @@ describe('fuzzing the built server', () => {
 					// The server may answer (e.g. 413 or 404) and close before reading a large body; the client then
 					// sees a reset. That is a refusal: the server must still be up and nothing may have changed.
 					if (!/ECONNRESET|EPIPE/.test(String((e as Error).message ?? e))) throw e;
+					spent.set('reset', (spent.get('reset') ?? 0) + Date.now() - t1);
+					if (process.env.FUZZ_DEBUG) console.log(`reset after ${Date.now() - t1} ms: ${String((e as Error).message)} ${describeReq(req).slice(0, 300)}\nserver log: ${server.log().slice(-1500)}`);
+					histogram.set(`${req.shape.split(':')[0]} reset`, (histogram.get(`${req.shape.split(':')[0]} reset`) ?? 0) + 1);
 					expect((await new Client(server.origin).get('/api/health')).status).toBe(200);
-					if (target.mayWrite ? fullSum() !== sum : dataVersion() !== version) find('database changed on a request the server cut off', describeReq(req));
+					if (changedSince(version, sum)) find('database changed on a request the server cut off', describeReq(req));
 					continue;
 				}
 				const v = judge(r);
 				const h = `${req.shape.split(':')[0]} ${v.status}`;
 				histogram.set(h, (histogram.get(h) ?? 0) + 1);
+				spent.set(req.shape.split(':')[0], (spent.get(req.shape.split(':')[0]) ?? 0) + Date.now() - t1);
+				const t2 = Date.now();
 				const what = `${describeReq(req)} → ${r.status} ${r.text.slice(0, 200)}`;
 				if (r.status >= 500 || v.status >= 500) {
 					tally.fivexx++;
@@ -297,9 +348,10 @@ describe('fuzzing the built server', () => {
 						return words.length >= 2 && words.some((w) => w.length >= 3) && !/^(Unknown|Internal) Error$/.test(s.trim());
 					});
 					if (!clear.length) find('a refusal without a sentence', what);
-					if (target.mayWrite ? fullSum() !== sum : dataVersion() !== version) find('the database changed on a refused request', what);
+					if (changedSince(version, sum)) find('the database changed on a refused request', what);
 					if (uploadList() !== files) find('the uploads folder changed on a refused request', what);
 				}
+				spent.set('post', (spent.get('post') ?? 0) + Date.now() - t2);
 			}
 			const later = [...deferred.values()];
 			tally.pages += later.length;
@@ -310,7 +362,7 @@ describe('fuzzing the built server', () => {
 			tally.findings = [...findings.values()].reduce((s, f) => s + f.count, 0);
 			tally.ms = Date.now() - t0;
 			const report = [...findings].map(([kind, f]) => `${f.count} × ${kind}\n   e.g. ${f.example}`);
-			if (process.env.FUZZ_DEBUG) console.log(`fuzz answers for ${tally.target}: ${[...histogram].sort().map(([k, n]) => `${k}×${n}`).join(', ')}`);
+			if (process.env.FUZZ_DEBUG) console.log(`fuzz answers for ${tally.target}: ${[...histogram].sort().map(([k, n]) => `${k}×${n}`).join(', ')}; generated in ${generated} ms; pages ${pageMs} ms; all ${Date.now() - t0} ms; ms by shape ${[...spent].map(([k, n]) => `${k} ${n}`).join(', ')}`);
 			if (report.length) console.log(`fuzz findings for ${tally.target}:\n${report.join('\n')}`);
 			expect(report, `findings (FUZZ_SEED=${SEED} replays)`).toEqual([]);
 			// valid requests get past validation: a share of every target reaches the service
