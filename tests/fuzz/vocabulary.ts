@@ -109,7 +109,7 @@ export function spliceDeepText(text: string): string {
 }
 
 export const deepValue: fc.Arbitrary<string> = fc
-	.tuple(fc.constantFrom(1000, 1500, 2000, 3500, 4000, 5000, 8000, 10_000), fc.constantFrom('a' as const, 'o' as const, 'm' as const))
+	.tuple(fc.constantFrom(1000, 1500, 2000, 2500, 3000, 3500, 4000, 5000, 8000, 10_000), fc.constantFrom('a' as const, 'o' as const, 'm' as const))
 	.map(([n, k]) => deepMarker(n, k));
 
 const MB = 'x'.repeat(1024 * 1024);
@@ -301,11 +301,13 @@ export function requestsFrom(encoding: Encoding, valid: fc.Arbitrary<Valid>, met
 		setAt(body, p, bad, false);
 		return encode(encoding, { ...v, body }, `broken:${name}`);
 	});
-	const extra = fc.tuple(valid, fc.nat(), fc.array(fc.tuple(unknownKey, fc.oneof(breaker, deepValue)), { minLength: 1, maxLength: 3 })).map(([v, n, adds]) => {
+	const extraValue = fc.oneof({ weight: 1, arbitrary: breaker }, { weight: 2, arbitrary: deepValue });
+	const extra = fc.tuple(valid, fc.nat(), fc.array(fc.tuple(unknownKey, extraValue), { minLength: 1, maxLength: 3 })).map(([v, n, adds]) => {
 		const body = clone(v.body);
 		if (encoding === 'json') {
-			const objects = objectsIn(body);
-			const at = objects[n % objects.length] ?? body;
+			// a nested object (a move's data, a run's readings) twice as often as the top level
+			const nested = objectsIn(body).filter((o) => o !== body);
+			const at = nested.length && n % 3 ? nested[n % nested.length] : body;
 			for (const [k, x] of adds) if (!(k in at)) Object.defineProperty(at, k, { value: x, enumerable: true, writable: true, configurable: true });
 			return encode(encoding, { ...v, body }, 'extra');
 		}
@@ -315,7 +317,7 @@ export function requestsFrom(encoding: Encoding, valid: fc.Arbitrary<Valid>, met
 	return fc.oneof(
 		{ weight: 3, arbitrary: valid.map((v) => encode(encoding, v, 'valid')) },
 		{ weight: 5, arbitrary: broken },
-		{ weight: 2, arbitrary: extra },
+		{ weight: 3, arbitrary: extra },
 		{ weight: 1, arbitrary: hostileRaw(valid.map((v) => v.path), method) }
 	);
 }

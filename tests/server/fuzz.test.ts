@@ -183,6 +183,15 @@ describe('fuzzing the built server', () => {
 		}
 	}
 
+	/** The last error the server logged: its message line and the two lines under it. */
+	function lastError(log: string): string {
+		const lines = log.split('\n');
+		for (let i = lines.length - 1; i >= 0; i--) {
+			if (/^\S.*(Error|error)/.test(lines[i])) return lines.slice(i, i + 3).map((l) => l.trim().slice(0, 200)).join(' | ');
+		}
+		return log.slice(-300).replace(/\s+/g, ' ');
+	}
+
 	function uploadList(): string {
 		return (readdirSync(uploads, { recursive: true }) as string[]).sort().join('\n');
 	}
@@ -316,7 +325,7 @@ describe('fuzzing the built server', () => {
 				const what = `${describeReq(req)} → ${r.status} ${r.text.slice(0, 200)}`;
 				if (r.status >= 500 || v.status >= 500) {
 					tally.fivexx++;
-					find(`${v.status} from the request itself [${req.shape.split(':')[0]}]`, `${what}\n   server log: ${server.log().slice(-300).replace(/\s+/g, ' ')}`);
+					find(`${v.status} from the request itself [${req.shape.split(':')[0]}]`, `${what}\n   server log: ${lastError(server.log())}`);
 					continue;
 				}
 				if (![400, 413, 415].includes(v.status)) tally.reached++;
