@@ -44,10 +44,10 @@ export interface Prepared {
 	liveRoles: LiveRole[];
 }
 
-export type LiveRole = 'pay' | 'approve' | 'decline' | 'draft';
-const LIVE_ROLES: LiveRole[] = ['pay', 'pay', 'approve', 'approve', 'approve', 'decline', 'decline', 'decline', 'draft', 'draft'];
+export type LiveRole = 'pay' | 'approve' | 'decline' | 'draft' | 'scrap';
+const LIVE_ROLES: LiveRole[] = ['pay', 'pay', 'approve', 'approve', 'approve', 'decline', 'decline', 'decline', 'draft', 'draft', 'scrap', 'scrap'];
 
-/** Units for the teardown moves (family with a checklist) and ten orders behind live links, their quotes in each state the customer and the office act on. */
+/** Units for the teardown moves (family with a checklist) and twelve orders behind live links, their quotes in each state the customer and the office act on. */
 export function prepareFuzzShop(file: string, units = 120): Prepared {
 	const db = openDatabase(file);
 	try {
@@ -85,6 +85,8 @@ export function prepareFuzzShop(file: string, units = 120): Prepared {
 			addQuoteLine(db, made.order.id, { kind: 'part', description: 'Bearing kit', quantity: '1', unitPrice: '100.00' });
 			if (role !== 'draft') sendQuote(db, made.order.id);
 			if (role === 'pay') decideQuote(db, made.order.id, { decision: 'approve' });
+			// declined, the customer asking us to scrap it: for the office's scrap action
+			if (role === 'scrap') decideQuote(db, made.order.id, { decision: 'decline', choice: 'scrap' });
 			liveOrderIds.push(made.order.id);
 			tokens.push(made.token);
 		}
