@@ -17,7 +17,9 @@ import { LOT_SOURCE_KEYS } from '../../src/lib/domain/lots/lot';
 import { ORDER_CHANNELS } from '../../src/lib/domain/orders/channels';
 import { NOTICE_KINDS } from '../../src/lib/domain/customer/progress';
 import {
+	deepLadder,
 	deepValue,
+	LADDER,
 	encode,
 	hostileJsonValue,
 	hostileString,
@@ -106,7 +108,11 @@ const some = (f: FuzzFixtures, ...states: string[]) => states.flatMap((s) => f.b
 /** A target whose valid requests go through the generator. */
 function target(t: Omit<FuzzTarget, 'request'> & { encoding: Encoding; valid(f: FuzzFixtures): fc.Arbitrary<Valid> }): FuzzTarget {
 	const { encoding, valid, ...rest } = t;
-	return { ...rest, request: (f) => requestsFrom(encoding, valid(f), t.method) };
+	return {
+		...rest,
+		request: (f) => requestsFrom(encoding, valid(f), t.method),
+		ladder: (f, seed) => deepLadder(encoding, fc.sample(valid(f), { numRuns: LADDER.length, seed }))
+	};
 }
 
 const at = (path: string, body: Record<string, unknown>, extra: Partial<Valid> = {}): Valid => ({ path, body, ...extra });

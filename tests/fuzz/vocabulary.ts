@@ -321,3 +321,23 @@ export function requestsFrom(encoding: Encoding, valid: fc.Arbitrary<Valid>, met
 		{ weight: 1, arbitrary: hostileRaw(valid.map((v) => v.path), method) }
 	);
 }
+
+/** The deep-nesting ladder: levels every run tries, whatever the seed (the range where stored nests have broken pages). */
+export const LADDER = [1000, 2000, 2500, 3000, 3500, 4000, 5000, 10_000];
+
+/**
+ * One request per ladder step, each from a valid request with a nest put under an unknown key of
+ * its innermost object (a move's data, a run's record) or, for forms, as an extra field.
+ */
+export function deepLadder(encoding: Encoding, valids: Valid[]): FuzzRequest[] {
+	return LADDER.map((levels, i) => {
+		const v = valids[i % valids.length];
+		const body = clone(v.body);
+		const marker = deepMarker(levels, i % 2 ? 'o' : 'a');
+		if (encoding === 'json') {
+			const nested = objectsIn(body).filter((o) => o !== body);
+			(nested[nested.length - 1] ?? body).extra = marker;
+		} else body.extra = marker;
+		return encode(encoding, { ...v, body }, `deep:${levels}`);
+	});
+}
