@@ -98,6 +98,8 @@ export interface FuzzTarget {
 	requiredNumbers?: string[];
 	/** The target redirects off the site on purpose (the payment checkout). */
 	offsite?: boolean;
+	/** Requests every run sends first, whatever the seed (the deep-nesting ladder), within the per-target count. */
+	ladder?(f: FuzzFixtures, seed: number): FuzzRequest[];
 	/** Multiple of the per-target count (1 by default; never less, so every target gets at least FUZZ_PER_TARGET). */
 	weight?: number;
 }
