@@ -259,17 +259,42 @@ const NUMERIC: Record<string, Entry> = {
 	'auth/lockout.ts#afterFailure': { args: args(throttle, num, policy), example: [null, 1000, { maxFailures: 5, windowMs: 900000, lockMs: 900000, maxLockMs: 86400000, maxConsecutive: 100 }] },
 	'auth/lockout.ts#lockMessage': { args: args(num), example: [90_000] },
 	'auth/lockout.ts#addressAfterSuccess': { args: args(throttle.filter((t) => t !== null)), example: [{ failures: 2, windowStart: 0, lockedUntil: 0, locks: 0, consecutive: 2 }] },
+	'numbers.ts#finiteResult': { args: args(label, fc.oneof(num, fc.array(num, { maxLength: 4 }), fc.record({ a: num, b: fc.option(num) }))), example: ['The result', { a: 1, b: null }] },
+	// buying decisions
+	'buying/checks.ts#checkCount': { args: args(label, num), example: ['Cores', 12] },
+	'buying/checks.ts#checkAmount': { args: args(label, num), example: ['Price', 4500] },
+	'buying/checks.ts#checkProportion': { args: args(label, int, int), example: ['Scrapped', 3, 10] },
+	'buying/checks.ts#checkConfidence': { args: args(num), example: [0.95] },
+	'buying/cost-per-good.ts#costPerGood': { args: args(fc.record({ label: fc.constant('A'), priceCents: num, labourCents: num, accepted: int, judged: int }), num), example: [{ label: 'A', priceCents: 4500, labourCents: 1200, accepted: 40, judged: 50 }, 0.95] },
+	'buying/newcombe.ts#newcombeDifference': { args: args(int, int, int, int, num), example: [56, 70, 48, 80, 0.95] },
+	'buying/newcombe.ts#points': { args: args(num), example: [0.25] },
+	'buying/skid.ts#priceSkid': { args: args(fc.record({ label: fc.constant('A'), cores: int, priceCents: num, labourCents: num, accepted: int, judged: int }), num), example: [{ label: 'A', cores: 40, priceCents: 4500, labourCents: 1200, accepted: 40, judged: 50 }, 0.95] },
+	// balancer drift
+	'drift/balancer.ts#shareOfAllowance': { args: args(num, num), example: [120, 1000] },
+	'drift/balancer.ts#planeDrift': { args: args(fc.constantFrom('comp', 'turb'), fc.array(num, { maxLength: 12 }), int), example: ['comp', [0.1, 0.2, 0.15, 0.3], 8] },
+	'drift/individuals.ts#checkValues': { args: args(fc.array(num, { maxLength: 8 })), example: [[0.1, 0.2, 0.3]] },
+	'drift/individuals.ts#individualsChart': { args: args(fc.array(num, { maxLength: 12 })), example: [[0.1, 0.2, 0.15, 0.3]] },
+	'drift/run-rules.ts#runRules': { args: args(fc.array(num, { maxLength: 12 }), num, num), example: [[0.1, 0.2, 0.15, 0.3], 0.2, 0.05] },
+	// trend smoothing
+	'plan/holt.ts#assertConstant': { args: args(label, num), example: ['α', 0.3] },
+	'plan/holt.ts#assertSeries': { args: args(fc.array(num, { maxLength: 8 })), example: [[3, 5, 4]] },
+	'plan/holt.ts#holt': { args: args(fc.array(num, { maxLength: 8 }), num, num), example: [[3, 5, 4, 6, 8], 0.3, 0.2] },
+	'plan/method-choice.ts#fitHolt': { args: args(fc.array(num, { maxLength: 8 })), example: [[3, 5, 4, 6, 8, 9]] },
+	'plan/method-choice.ts#fitSesAlpha': { args: args(fc.array(num, { maxLength: 8 })), example: [[3, 5, 4, 6, 8, 9]] },
+	'plan/method-choice.ts#chooseMethod': { args: args(fc.array(num, { maxLength: 8 }), num), example: [[3, 5, 4, 6, 8, 9], 0.3] },
 	// teardown form
 	'inspection/qualification.ts#parseLabourMinutes': { args: args(fc.oneof(text, fc.constant(null), fc.constant(undefined))), example: ['45'] }
 };
 
 /** Modules with no function that computes on quantities: names, states, text and byte parsing. */
 const NOT_NUMERIC_MODULES: Record<string, string> = {
+	'input/fields.ts': 'form and body field schemas (blank and unknown-key sentences)',
+	'input/json.ts': 'bounding and summarising JSON text (depths and lengths of stored text, not quantities)',
+	'units/event-data.ts': 'reading stored move data into a safe view',
 	'auth/roles.ts': 'role names and groups',
 	'cards/card-style.ts': 'card names, shapes and colours',
 	'customer/mail-templates.ts': 'e-mail text from facts already formatted',
 	'import/csv-table.ts': 'decoding and splitting an uploaded text file (byte offsets, not quantities)',
-	'import/csv-write.ts': 'CSV text',
 	'import/map-columns.ts': 'matching column headers to fields',
 	'lots/manifest.ts': 'checking manifest rows (tags and model codes)',
 	'orders/channels.ts': 'order channel and status names',
@@ -287,6 +312,11 @@ const NOT_NUMERIC_MODULES: Record<string, string> = {
 
 /** Functions in modules that also hold numeric ones, set aside with the reason. */
 const NOT_NUMERIC: Record<string, string> = {
+	'buying/cost-per-good.ts#rankByUpper': 'orders rows already computed by costPerGood',
+	'buying/newcombe.ts#differenceSentence': 'a sentence from a computed difference',
+	'buying/skid.ts#compareOffers': 'a sentence from two priced offers',
+	'drift/balancer.ts#driftVerdict': 'sentences from planeDrift per plane',
+	'plan/plan-with-method.ts#planModelWithMethod': 'the plan for one model from chooseMethod and planModel, both in the table',
 	'balance/csv-map.ts#guessMap': 'guesses columns from header words',
 	'customer/progress.ts#noticeForMove': 'which e-mail a move sends',
 	'inspection/qualification.ts#checkQualification': 'the checklist form; its minutes go through parseLabourMinutes',

@@ -38,10 +38,9 @@ describe("Little's law check", () => {
 });
 
 describe('normal quantile', () => {
-	test('p = 0 and p = 1 are the infinite ends; outside [0, 1] is refused', () => {
-		expect(normalQuantile(0)).toBe(-Infinity);
-		expect(normalQuantile(1)).toBe(Infinity);
-		for (const p of [-0.1, 1.1, Number.NaN]) expect(() => normalQuantile(p), String(p)).toThrow(RangeError);
+	test('p = 0 and p = 1 (the infinite ends) and anything outside (0, 1) are refused: the quantile is always finite', () => {
+		for (const p of [0, 1, -0.1, 1.1, Number.NaN]) expect(() => normalQuantile(p), String(p)).toThrow(RangeError);
+		expect(Number.isFinite(normalQuantile(Number.MIN_VALUE))).toBe(true);
 	});
 
 	test('after the Halley step the quantile inverts Φ to a relative 1e-12, also in the far tails and at the branch points', () => {
@@ -55,9 +54,10 @@ describe('normal quantile', () => {
 });
 
 describe('p-chart edges', () => {
-	test('an empty sample has the widest limits, even at p̄ = 0 (no 0/0)', () => {
-		expect(pChartLimits(0, 0)).toEqual({ centre: 0, lcl: 0, ucl: 1 });
-		expect(pChartLimits(0.2, 0)).toEqual({ centre: 0.2, lcl: 0, ucl: 1 });
+	test('an empty sample has no limits: it is refused, not drawn at 0/0', () => {
+		expect(() => pChartLimits(0, 0)).toThrow(RangeError);
+		expect(() => pChartLimits(0.2, 0)).toThrow(RangeError);
+		expect(pChartLimits(0, 1)).toEqual({ centre: 0, lcl: 0, ucl: 0 });
 	});
 
 	test('a point on a limit is within; only beyond it is a signal (NIST/SEMATECH e-Handbook §6.3.3.2: points outside the limits)', () => {

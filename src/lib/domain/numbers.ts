@@ -91,6 +91,18 @@ export function result(name: string, x: number): number {
 	return x;
 }
 
+/** Every number in a computed result (nested objects and arrays too) is finite; null stands for "none". */
+export function finiteResult<T>(name: string, value: T): T {
+	const stack: unknown[] = [value];
+	while (stack.length) {
+		const v = stack.pop();
+		if (typeof v === 'number') result(name, v);
+		else if (Array.isArray(v)) stack.push(...v);
+		else if (v && typeof v === 'object') stack.push(...Object.values(v));
+	}
+	return value;
+}
+
 /** One of a fixed set of words. */
 export function oneOf<T extends string>(name: string, x: unknown, allowed: readonly T[]): T {
 	if (typeof x !== 'string' || !(allowed as readonly string[]).includes(x)) {

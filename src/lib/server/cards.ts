@@ -169,7 +169,7 @@ type Resolved = { ruleModelId: number | null; ruleStage: Stage | null; ruleLotId
 
 function resolveRule(tx: DbOrTx, v: z.output<typeof cardInputSchema>): { ok: true; rule: Resolved } | { ok: false; fields: Record<string, string[]> } {
 	if (v.kind === 'units') return { ok: true, rule: { ruleModelId: null, ruleStage: null, ruleLotId: null } };
-	const fields: Record<string, string[]> = {};
+	const fields: Record<string, string[]> = Object.create(null);
 	let ruleModelId: number | null = null;
 	let ruleLotId: number | null = null;
 	if (v.ruleModel) {
@@ -210,7 +210,7 @@ function findUnits(tx: DbOrTx, serials: string[]): { ok: true; units: { id: numb
 export function createCard(db: Db, actor: Actor, input: CardInput, now = new Date()): CardResult {
 	const parsed = cardInputSchema.safeParse(input);
 	if (!parsed.success) {
-		const fields: Record<string, string[]> = {};
+		const fields: Record<string, string[]> = Object.create(null);
 		for (const i of parsed.error.issues) (fields[i.path.join('.') || '_'] ??= []).push(i.message);
 		return invalid(fields);
 	}
@@ -255,7 +255,7 @@ const EDITABLE = ['title', 'dueOn', 'style', 'kind', 'ruleModelId', 'ruleStage',
 export function updateCard(db: Db, actor: Actor, id: number, expectedVersion: number, input: CardInput, now = new Date()): CardResult {
 	const parsed = cardInputSchema.safeParse(input);
 	if (!parsed.success) {
-		const fields: Record<string, string[]> = {};
+		const fields: Record<string, string[]> = Object.create(null);
 		for (const i of parsed.error.issues) (fields[i.path.join('.') || '_'] ??= []).push(i.message);
 		return invalid(fields);
 	}

@@ -20,7 +20,7 @@ export function apiError(
 }
 
 export function zodFields(error: z.ZodError): Record<string, string[]> {
-	const out: Record<string, string[]> = {};
+	const out: Record<string, string[]> = Object.create(null); // a key such as "__proto__" is a field name like any other
 	for (const issue of error.issues) {
 		// an unknown key is reported under its own name, so a form can point at it
 		const keys = issue.code === 'unrecognized_keys' ? issue.keys.map((k) => [...issue.path, k]) : [issue.path];

@@ -105,7 +105,7 @@ function insertOrder(tx: DbOrTx, actor: Actor, models: Map<string, number>, o: {
 export function createOrder(db: Db, actor: Actor, input: OrderInput, now = new Date()): SaveOrdersResult {
 	const parsed = orderInputSchema.safeParse(input);
 	if (!parsed.success) {
-		const fields: Record<string, string[]> = {};
+		const fields: Record<string, string[]> = Object.create(null);
 		for (const i of parsed.error.issues) (fields[i.path.join('.') || '_'] ??= []).push(i.message);
 		return { ok: false, status: 400, message: parsed.error.issues[0]?.message ?? 'Check the order.', fields };
 	}

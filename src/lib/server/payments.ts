@@ -7,6 +7,7 @@
  */
 import Stripe from 'stripe';
 import { desc, eq } from 'drizzle-orm';
+import { z } from 'zod';
 import type { Db } from './db';
 import { paymentEvent, quote, rebuildOrder } from './db/schema';
 import { getRebuildSettings } from './rebuild-settings';
@@ -100,10 +101,16 @@ export async function startCheckout(db: Db, stripe: Stripe, orderId: number, ret
 }
 
 export type WebhookOutcome =
-	| { status: 400; message: string }
+	| { status: 400; code: 'bad_signature' | 'bad_event'; message: string }
 	| { status: 200; result: 'paid' | 'replayed' | 'ignored' };
 
 /** Verify and apply one webhook delivery. `payload` is the raw body, exactly as received. */
+const webhookEventSchema = z.object({
+	id: z.string().min(1).max(255),
+	type: z.string().min(1).max(255),
+	data: z.object({ object: z.record(z.string(), z.unknown()) })
+});
+
 export function handlePaymentWebhook(
 	db: Db,
 	stripe: Stripe,
@@ -116,8 +123,11 @@ export function handlePaymentWebhook(
 	try {
 		event = stripe.webhooks.constructEvent(payload, signature ?? '', webhookSecret) as typeof event;
 	} catch {
-		return { status: 400, message: 'The webhook signature does not verify.' };
+		return { status: 400, code: 'bad_signature', message: 'The webhook signature does not verify.' };
 	}
+	// a signed body is still checked for the fields read below before anything is written
+	const shape = webhookEventSchema.safeParse(event);
+	if (!shape.success) return { status: 400, code: 'bad_event', message: 'The webhook event lacks an id, a type or its data object.' };
 	return db.transaction(
 		(tx): WebhookOutcome => {
 			const seen = tx.select().from(paymentEvent).where(eq(paymentEvent.id, event.id)).get();

@@ -102,6 +102,13 @@ export function createShipment(db: Db, actor: Actor, input: NewShipment, now: Da
 			const missing = serials.filter((s) => !units.some((u) => u.serial === s));
 			if (missing.length) throw new ShipmentError(`No unit ${missing.join(', ')} in the shop.`);
 			for (const u of units) {
+				const onShipment = db
+					.select({ code: shipment.code })
+					.from(shipmentUnit)
+					.innerJoin(shipment, eq(shipment.id, shipmentUnit.shipmentId))
+					.where(eq(shipmentUnit.unitId, u.id))
+					.get();
+				if (onShipment) throw new ShipmentError(`${u.serial} already went out on shipment ${onShipment.code}.`);
 				const owner = db.select({ id: rebuildOrder.id }).from(rebuildOrder).where(eq(rebuildOrder.unitId, u.id)).get();
 				if (owner && input.destination !== 'customer') throw new ShipmentError(`${u.serial} is a customer's unit; it ships to its customer.`);
 				if (owner && orderId !== null && owner.id !== orderId) throw new ShipmentError(`${u.serial} belongs to another customer's order.`);

@@ -8,6 +8,7 @@
  */
 import { wilsonInterval } from '../stats/proportion';
 import { checkAmount, checkConfidence, checkProportion } from './checks';
+import { finiteResult } from '../numbers';
 
 export interface CostInput {
 	/** Price paid per core, in cents. */
@@ -39,9 +40,9 @@ export function costPerGood(input: CostInput, confidence = 0.95): CostPerGood {
 	checkConfidence(confidence);
 	const c = input.priceCents + input.labourCents;
 	const ci = wilsonInterval(input.accepted, input.judged, confidence);
-	if (!ci) return { perCoreCents: c, acceptRate: null, acceptLow: null, acceptHigh: null, cents: null, lowCents: null, highCents: null };
+	if (!ci) return finiteResult('The cost per good core', { perCoreCents: c, acceptRate: null, acceptLow: null, acceptHigh: null, cents: null, lowCents: null, highCents: null });
 	const p = input.accepted / input.judged;
-	return {
+	return finiteResult('The cost per good core', {
 		perCoreCents: c,
 		acceptRate: p,
 		acceptLow: ci.low,
@@ -49,7 +50,7 @@ export function costPerGood(input: CostInput, confidence = 0.95): CostPerGood {
 		cents: p > 0 ? c / p : null,
 		lowCents: ci.high > 0 ? c / ci.high : null,
 		highCents: ci.low > 0 ? c / ci.low : null
-	};
+	});
 }
 
 /** Cheapest worst case first; sources without an upper end (or any verdicts) last, then by the expected cost. */

@@ -9,6 +9,7 @@
  */
 import { wilsonInterval } from '../stats/proportion';
 import { checkConfidence, checkProportion } from './checks';
+import { finite, result } from '../numbers';
 
 export interface ProportionSide {
 	x: number;
@@ -49,7 +50,8 @@ export function newcombeDifference(x1: number, n1: number, x2: number, n2: numbe
 
 /** Percentage points, whole above one point, one decimal below. */
 export function points(v: number): string {
-	const p = Math.abs(v * 100);
+	finite('A difference in points', v);
+	const p = result('A difference in points', Math.abs(v * 100));
 	return p >= 1 ? String(Math.round(p)) : p.toFixed(1);
 }
 

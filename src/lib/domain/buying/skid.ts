@@ -7,6 +7,7 @@
  */
 import { costPerGood, type CostPerGood } from './cost-per-good';
 import { checkAmount, checkCount } from './checks';
+import { finiteResult } from '../numbers';
 
 export interface SkidOffer {
 	label: string;
@@ -32,7 +33,7 @@ export function priceSkid(offer: SkidOffer, confidence = 0.95): SkidQuote {
 	if (offer.cores === 0) throw new RangeError('A skid needs at least one core.');
 	checkAmount('price per core', offer.priceCents);
 	const cost = costPerGood(offer, confidence);
-	return {
+	return finiteResult('The skid', {
 		label: offer.label,
 		cores: offer.cores,
 		outlayCents: offer.cores * (offer.priceCents + offer.labourCents),
@@ -40,7 +41,7 @@ export function priceSkid(offer: SkidOffer, confidence = 0.95): SkidQuote {
 		goodLow: cost.acceptLow === null ? null : offer.cores * cost.acceptLow,
 		goodHigh: cost.acceptHigh === null ? null : offer.cores * cost.acceptHigh,
 		cost
-	};
+	});
 }
 
 const dollars = (cents: number) => (cents / 100).toFixed(2);

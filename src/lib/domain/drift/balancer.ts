@@ -7,6 +7,7 @@
  */
 import { individualsChart, type IndividualsChart } from './individuals';
 import { RULE_WORDS, runRules, type RuleHit } from './run-rules';
+import { finiteResult, result } from '../numbers';
 
 export const PLANES = ['comp', 'turb'] as const;
 export type Plane = (typeof PLANES)[number];
@@ -15,7 +16,7 @@ export const PLANE_WORDS: Record<Plane, string> = { comp: 'compressor plane', tu
 export function shareOfAllowance(residualGmm: number, tolGmm: number): number {
 	if (typeof residualGmm !== 'number' || !Number.isFinite(residualGmm) || residualGmm < 0) throw new RangeError(`A residual unbalance must be a number of g·mm, 0 or more (got ${String(residualGmm)}).`);
 	if (typeof tolGmm !== 'number' || !Number.isFinite(tolGmm) || tolGmm <= 0) throw new RangeError(`An allowance must be a positive number of g·mm (got ${String(tolGmm)}).`);
-	return residualGmm / tolGmm;
+	return result('The share of the allowance', residualGmm / tolGmm);
 }
 
 export interface PlaneDrift {
@@ -41,7 +42,7 @@ export function planeDrift(plane: Plane, shares: readonly number[], recent = 8):
 	const hits = chart ? runRules(shares, chart.centre, chart.sigma) : [];
 	const last = shares.length - 1;
 	const current = hits.filter((h) => h.to > last - recent);
-	return { plane, chart, hits, current, worst: shares.length ? Math.max(...shares) : null };
+	return finiteResult('The drift of a plane', { plane, chart, hits, current, worst: shares.length ? Math.max(...shares) : null });
 }
 
 export function driftVerdict(series: Record<Plane, readonly number[]>, labels: readonly string[] = []): DriftVerdict {

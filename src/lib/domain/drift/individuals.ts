@@ -5,6 +5,7 @@
  *   limits x̄ ± 3·MR̄/d₂ with d₂ = 2/√π ≈ 1.128 (the expected range of two normal values in
  *   units of σ), and the moving-range chart's upper limit D₄·MR̄ with D₄ = 1 + 3·d₃/d₂ ≈ 3.267.
  */
+import { finiteResult } from '../numbers';
 export const D2 = 2 / Math.sqrt(Math.PI);
 /** d₃ for subgroups of two: the standard deviation of the range of two normal values, in σ: √(2 − 4/π) ≈ 0.853. */
 export const D3 = Math.sqrt(2 - 4 / Math.PI);
@@ -42,5 +43,5 @@ export function individualsChart(xs: readonly number[]): IndividualsChart | null
 	const centre = xs.reduce((a, x) => a + x, 0) / xs.length;
 	const mrBar = sumMr / (xs.length - 1);
 	const sigma = mrBar / D2;
-	return { centre, mrBar, sigma, ucl: centre + 3 * sigma, lcl: centre - 3 * sigma, mrUcl: D4 * mrBar, mr };
+	return finiteResult('The individuals chart', { centre, mrBar, sigma, ucl: centre + 3 * sigma, lcl: centre - 3 * sigma, mrUcl: D4 * mrBar, mr });
 }

@@ -8,6 +8,7 @@
  * four observations). The forecast of y_t made one period before is F_t = S_{t−1} + b_{t−1};
  * the forecast m periods past the last is S_n + m·b_n.
  */
+import { finiteResult } from '../numbers';
 
 export type InitialTrend = 'first-difference' | 'mean-of-three' | number;
 
@@ -70,5 +71,5 @@ export function holt(series: readonly number[], alpha: number, gamma: number, in
 		trend.push(b);
 	}
 	const sse = errors.reduce((a, e) => a + e * e, 0);
-	return { alpha, gamma, level, trend, forecasts, errors, mse: errors.length ? sse / errors.length : null, next: s + b };
+	return finiteResult('The trend forecast', { alpha, gamma, level, trend, forecasts, errors, mse: errors.length ? sse / errors.length : null, next: s + b });
 }

@@ -108,7 +108,7 @@ export function stageAction(stage: Stage): ActionName {
 }
 
 function fieldErrors(issues: readonly { code?: string; path: PropertyKey[]; message: string; keys?: string[] }[]): Record<string, string[]> {
-	const out: Record<string, string[]> = {};
+	const out: Record<string, string[]> = Object.create(null);
 	for (const issue of issues) {
 		// an unknown key is reported under its own name
 		const paths = issue.code === 'unrecognized_keys' && issue.keys ? issue.keys.map((k) => [...issue.path, k]) : [issue.path];

@@ -21,7 +21,10 @@ export const load: PageServerLoad = async ({ url }) => {
 
 export const actions: Actions = {
 	default: async ({ request }) => {
-		const form = await superValidate(request, zod4(lotFormSchema(today())));
+		const posted = await request.formData();
+		const form = await superValidate(posted, zod4(lotFormSchema(today())));
+		// a blank count would be read as 0; it is refused, and "0" typed on purpose is a count
+		if (String(posted.get('expectedCount') ?? '').trim() === '') return setError(form, 'expectedCount', 'Give how many cores the lot should hold (type 0 if none are expected yet).');
 		if (!form.valid) return fail(400, { form });
 		const result = createLot(getDb(), form.data, today());
 		if (!result.ok) return setError(form, result.field, result.message);

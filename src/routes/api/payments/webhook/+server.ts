@@ -18,6 +18,6 @@ export const POST: RequestHandler = async ({ request }) => {
 	// the signature is checked on the exact text; the nesting is checked first so nothing recursive sees a hostile body
 	if (jsonDepth(payload, MAX_JSON_DEPTH + 1) > MAX_JSON_DEPTH) return apiError(400, 'too_deep', tooDeepMessage());
 	const out = handlePaymentWebhook(getDb(), services.stripe, paymentConfig().webhookSecret, payload, request.headers.get('stripe-signature'));
-	if (out.status === 400) return apiError(400, 'bad_signature', out.message);
+	if (out.status === 400) return apiError(400, out.code, out.message);
 	return json({ received: true, result: out.result });
 };
