@@ -17,6 +17,16 @@ export function daysText(d: number | null | undefined): string {
 }
 
 /** Fetch one of our JSON report routes; throws the server's sentence on an error. */
+/** The report filters of a page's address (from, to, model) as a query string for the report APIs. */
+export function reportFilters(url: URL, keys: readonly string[] = ['from', 'to', 'model']): string {
+	const p = new URLSearchParams();
+	for (const k of keys) {
+		const v = url.searchParams.get(k);
+		if (v) p.set(k, v);
+	}
+	return p.toString();
+}
+
 export async function fetchReport<T>(path: string, fetcher: typeof fetch = fetch): Promise<T> {
 	const res = await fetcher(path, { headers: { accept: 'application/json' } });
 	const body = await res.json().catch(() => null);
